@@ -132,7 +132,8 @@ export function buildModel(
     training: { rows: n, logDensityQuantiles: { levels: [0, 1], values: [0, 0] } },
   };
   if (opts.selection) model.selection = opts.selection.map(({ result: _r, ...rest }) => rest);
-  model.training.logDensityQuantiles = quantileSummary(logDensities(model, rows, n));
+  // score through a throw-away copy so the scorer cache never sees the placeholder summary
+  model.training.logDensityQuantiles = quantileSummary(logDensities({ ...model }, rows, n));
   return model;
 }
 

@@ -54,7 +54,10 @@ export interface Scorer {
 
 const cache = new WeakMap<object, Scorer>();
 
-/** Factorise a model for scoring (done once per model object and cached). */
+/**
+ * Factorise a model for scoring (done once per model object and cached; treat a model
+ * object as immutable once scored — build a new object to change parameters).
+ */
 export function prepareScorer(model: ScorableModel): Scorer {
   const hit = cache.get(model);
   if (hit) return hit;
@@ -158,7 +161,7 @@ export function scoreRows(model: ScorableModel, rows: Float64Array, n: number): 
   const typicality = new Float64Array(n);
   const best = new Int32Array(n);
   for (let r = 0; r < n; r++) {
-    typicality[r] = typicalityOf(s.quantiles, logDensity[r]);
+    typicality[r] = typicalityOf(model.training.logDensityQuantiles, logDensity[r]);
     let b = 0;
     for (let c = 1; c < s.k; c++) if (probabilities[r * s.k + c] > probabilities[r * s.k + b]) b = c;
     best[r] = b;
