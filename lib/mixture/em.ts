@@ -38,6 +38,8 @@ export interface FitOptions {
   regCovar?: number; // added to covariance diagonals, in the fitted (standardised) space; default 1e-6
   /** z-score features before fitting (default true); results are still in original units */
   standardize?: boolean;
+  /** feature names, used only in error messages */
+  columnNames?: string[];
   /** soft count below which a component counts as empty (default 1e-8) */
   minComponentCount?: number;
   onProgress?: (p: FitProgress) => void;
@@ -188,7 +190,9 @@ export function fitMixtureWith(rows: Float64Array, n: number, d: number, opts: F
   const minCount = opts.minComponentCount ?? 1e-8;
   const init: FitOptions['init'] = opts.init ?? 'kmeans++';
 
-  const scaler = standardize ? fitScaler(rows, n, d) : null;
+  // a constant column is rejected either way (it would make every covariance singular)
+  const fittedScaler = fitScaler(rows, n, d, opts.columnNames);
+  const scaler = standardize ? fittedScaler : null;
   let x: Float64Array;
   if (engine.allocRows) {
     x = engine.allocRows(n * d);

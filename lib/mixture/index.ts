@@ -43,3 +43,4 @@ export {
   type SelectionEntry,
 } from './model-json';
 export { SeededRandom } from './prng';
+export { parseNumericTable, parseNumber, type NumericTable } from './table';

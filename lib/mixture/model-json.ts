@@ -31,14 +31,15 @@ const modelSchema = z.object({
   weights: z.array(finite).min(1, 'must have at least one component'),
   means: z.array(z.array(finite)),
   covariances: z.array(z.array(z.array(finite))),
-  fit: z.object({
-    logLikelihood: finite,
-    meanLogLikelihood: finite,
-    bic: finite,
-    aic: finite,
-    parameters: z.number().int().positive(),
-    iterations: z.number().int().nonnegative(),
-    converged: z.boolean(),
+  logLikelihood: finite,
+  meanLogLikelihood: finite,
+  bic: finite,
+  aic: finite,
+  parameters: z.number().int().positive(),
+  iterations: z.number().int().nonnegative(),
+  converged: z.boolean(),
+  settings: z.object({
+    standardized: z.boolean(),
     regCovar: finite,
     tol: finite,
     maxIter: z.number().int().positive(),
@@ -50,7 +51,7 @@ const modelSchema = z.object({
     rows: z.number().int().positive(),
     logDensityQuantiles: z.object({ levels: z.array(finite).min(2), values: z.array(finite).min(2) }),
   }),
-  selection: z
+  ranking: z
     .array(
       z.object({
         rank: z.number().int().positive().nullable(),
@@ -69,9 +70,9 @@ const modelSchema = z.object({
 });
 
 type RawModel = z.infer<typeof modelSchema>;
-export type MixtureModel = Omit<RawModel, 'structure' | 'selection'> & {
+export type MixtureModel = Omit<RawModel, 'structure' | 'ranking'> & {
   structure: (typeof COVARIANCES)[number];
-  selection?: SelectionEntry[];
+  ranking?: SelectionEntry[];
 };
 export type SelectionEntry = Omit<Candidate, 'result'>;
 
@@ -114,14 +115,15 @@ export function buildModel(
     weights: fit.weights.slice(),
     means: fit.means.map((m) => m.slice()),
     covariances: fit.covariances.map((c) => c.map((r) => r.slice())),
-    fit: {
-      logLikelihood: fit.logLikelihood,
-      meanLogLikelihood: fit.meanLogLikelihood,
-      bic: fit.bic,
-      aic: fit.aic,
-      parameters: fit.parameters,
-      iterations: fit.iterations,
-      converged: fit.converged,
+    logLikelihood: fit.logLikelihood,
+    meanLogLikelihood: fit.meanLogLikelihood,
+    bic: fit.bic,
+    aic: fit.aic,
+    parameters: fit.parameters,
+    iterations: fit.iterations,
+    converged: fit.converged,
+    settings: {
+      standardized: fit.standardized,
       regCovar: fit.settings.regCovar,
       tol: fit.settings.tol,
       maxIter: fit.settings.maxIter,
@@ -131,7 +133,7 @@ export function buildModel(
     },
     training: { rows: n, logDensityQuantiles: { levels: [0, 1], values: [0, 0] } },
   };
-  if (opts.selection) model.selection = opts.selection.map(({ result: _r, ...rest }) => rest);
+  if (opts.selection) model.ranking = opts.selection.map(({ result: _r, ...rest }) => rest);
   // score through a throw-away copy so the scorer cache never sees the placeholder summary
   model.training.logDensityQuantiles = quantileSummary(logDensities({ ...model }, rows, n));
   return model;

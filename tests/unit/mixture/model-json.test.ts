@@ -36,7 +36,8 @@ describe('model JSON', () => {
     for (let r = 0; r < n; r++) min = Math.min(min, x[r * d]);
     expect(model.features[0].min).toBe(min);
     expect(model.scaler?.scale).toHaveLength(3);
-    expect(model.fit.bic).toBe(fit.bic);
+    expect(model.bic).toBe(fit.bic);
+    expect(model.settings.standardized).toBe(true);
     expect(model.covariances[0]).toHaveLength(3);
   });
 

@@ -1,0 +1,169 @@
+/**
+ * A PassEngine that splits each EM pass across worker threads over SharedArrayBuffer
+ * (Node only). The main thread takes the first slice itself, so `workers = 1` uses two
+ * cores. Every thread runs the same top-level kernels (passFull / passDiag) as the
+ * single-thread engine and the per-thread statistics are summed in a fixed order, so a
+ * fit is deterministic for a given thread count (sums differ from one thread only by
+ * floating-point rounding).
+ *
+ *   const engine = await createWorkerEngine(1);
+ *   try { fitMixtureWith(rows, n, d, opts, engine) } finally { await engine.close() }
+ *
+ * The worker file is TypeScript (worker.ts); the thread registers tsx's CommonJS hook
+ * before loading it (tsx is a dependency). A bundled build would need a compiled worker.
+ */
+import path from 'node:path';
+import { MessageChannel, type MessagePort, Worker } from 'node:worker_threads';
+import { passDiag, passFull, scratchLength, statsLength } from '../mixture/estep';
+import type { PassEngine } from '../mixture/em';
+import { packedSize } from '../mixture/linalg';
+import type { Factors } from '../mixture/mstep';
+import type { Gaussians } from '../mixture/types';
+import { CMD_CONFIG, CMD_EXIT, CMD_PASS, COMMAND, CONTROL_WORDS, DONE, FAILED, SEQ, type WorkerConfig } from './protocol';
+
+export interface WorkerEngine extends PassEngine {
+  readonly threads: number;
+  close(): Promise<void>;
+}
+
+interface Layout {
+  x: Float64Array;
+  n: number;
+  d: number;
+  k: number;
+  diagonal: boolean;
+  params: Float64Array;
+  means: Float64Array;
+  factors: Float64Array;
+  logConst: Float64Array;
+  stats: Float64Array; // (workers + 1) blocks; block 0 = main thread
+  statsLength: number;
+  scratch: Float64Array;
+  mainEnd: number;
+}
+
+export async function createWorkerEngine(workers = 1): Promise<WorkerEngine> {
+  if (!Number.isInteger(workers) || workers < 1) throw new Error('workers must be a positive integer');
+  const control = new SharedArrayBuffer(CONTROL_WORDS * 4);
+  const ctrl = new Int32Array(control);
+  const ports: MessagePort[] = [];
+  const threads: Worker[] = [];
+  const ready: Promise<void>[] = [];
+  const file = path.join(__dirname, 'worker.ts');
+  for (let w = 0; w < workers; w++) {
+    const { port1, port2 } = new MessageChannel();
+    // TypeScript worker: register tsx's CommonJS hook inside the thread, then load it
+    const boot = file.endsWith('.ts')
+      ? `require('tsx/cjs/api').register(); require(${JSON.stringify(file)});`
+      : `require(${JSON.stringify(file)});`;
+    const worker = new Worker(boot, { eval: true, workerData: { control, port: port2 }, transferList: [port2] });
+    ready.push(
+      new Promise((resolve, reject) => {
+        worker.once('message', () => resolve());
+        worker.once('error', reject);
+      }),
+    );
+    threads.push(worker);
+    ports.push(port1);
+  }
+  await Promise.all(ready);
+  let layout: Layout | null = null;
+
+  function dispatch(cmd: number): void {
+    Atomics.store(ctrl, DONE, 0);
+    Atomics.store(ctrl, FAILED, 0);
+    Atomics.store(ctrl, COMMAND, cmd);
+    Atomics.add(ctrl, SEQ, 1);
+    Atomics.notify(ctrl, SEQ);
+  }
+  function join(): void {
+    for (;;) {
+      const done = Atomics.load(ctrl, DONE);
+      if (done >= workers) break;
+      Atomics.wait(ctrl, DONE, done, 10000);
+    }
+    if (Atomics.load(ctrl, FAILED) !== 0) throw new Error('a mixture worker thread failed');
+  }
+
+  function configure(x: Float64Array, n: number, d: number, k: number, diagonal: boolean): Layout {
+    let rows = x;
+    if (!(x.buffer instanceof SharedArrayBuffer)) {
+      rows = new Float64Array(new SharedArrayBuffer(n * d * 8));
+      rows.set(x.subarray(0, n * d));
+    }
+    const factorLength = k * (diagonal ? d : packedSize(d));
+    const kd = k * d;
+    const paramsBuf = new SharedArrayBuffer((kd + factorLength + k) * 8);
+    const sl = statsLength(k, d, diagonal);
+    const statsBuf = new SharedArrayBuffer((workers + 1) * sl * 8);
+    const bounds = Array.from({ length: workers + 2 }, (_, i) => Math.round((i * n) / (workers + 1)));
+    ports.forEach((p, w) => {
+      const msg: WorkerConfig = {
+        rows: rows.buffer as SharedArrayBuffer,
+        params: paramsBuf,
+        stats: statsBuf,
+        n,
+        d,
+        k,
+        diagonal,
+        factorLength,
+        statsLength: sl,
+        start: bounds[w + 1],
+        end: bounds[w + 2],
+        slot: w + 1,
+      };
+      p.postMessage(msg);
+    });
+    dispatch(CMD_CONFIG);
+    join();
+    return {
+      x,
+      n,
+      d,
+      k,
+      diagonal,
+      params: new Float64Array(paramsBuf),
+      means: new Float64Array(paramsBuf, 0, kd),
+      factors: new Float64Array(paramsBuf, kd * 8, factorLength),
+      logConst: new Float64Array(paramsBuf, (kd + factorLength) * 8, k),
+      stats: new Float64Array(statsBuf),
+      statsLength: sl,
+      scratch: new Float64Array(scratchLength(k, d)),
+      mainEnd: bounds[1],
+    };
+  }
+
+  return {
+    threads: workers + 1,
+    allocRows(length: number) {
+      return new Float64Array(new SharedArrayBuffer(length * 8));
+    },
+    run(x: Float64Array, n: number, d: number, g: Gaussians, f: Factors, out: Float64Array) {
+      const k = g.k;
+      if (layout === null || layout.x !== x || layout.n !== n || layout.d !== d || layout.k !== k || layout.diagonal !== f.diagonal) {
+        layout = configure(x, n, d, k, f.diagonal);
+      }
+      const L = layout;
+      const rows = x.buffer instanceof SharedArrayBuffer ? x : L.x;
+      L.means.set(g.means);
+      L.factors.set(f.factors);
+      L.logConst.set(f.logConst);
+      dispatch(CMD_PASS);
+      const mine = L.stats.subarray(0, L.statsLength);
+      mine.fill(0);
+      if (L.diagonal) passDiag(rows, 0, L.mainEnd, d, k, L.means, L.factors, L.logConst, L.scratch, mine);
+      else passFull(rows, 0, L.mainEnd, d, k, L.means, L.factors, L.logConst, L.scratch, mine);
+      join();
+      out.fill(0);
+      for (let w = 0; w <= workers; w++) {
+        const o = w * L.statsLength;
+        for (let i = 0; i < L.statsLength; i++) out[i] += L.stats[o + i];
+      }
+    },
+    async close() {
+      dispatch(CMD_EXIT);
+      await Promise.all(threads.map((t) => new Promise<void>((resolve) => (t.threadId < 0 ? resolve() : t.once('exit', () => resolve())))));
+      ports.forEach((p) => p.close());
+    },
+  };
+}

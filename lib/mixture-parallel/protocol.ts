@@ -1,0 +1,26 @@
+/** Shared between the main-thread engine and its workers. */
+export const CMD_CONFIG = 1;
+export const CMD_PASS = 2;
+export const CMD_EXIT = 3;
+
+/** Int32 control words in the control SharedArrayBuffer. */
+export const SEQ = 0; // bumped by the main thread for every job
+export const DONE = 1; // workers add 1 when their part of the job is finished
+export const COMMAND = 2;
+export const FAILED = 3; // a worker sets 1 when its job threw
+export const CONTROL_WORDS = 4;
+
+export interface WorkerConfig {
+  rows: SharedArrayBuffer;
+  params: SharedArrayBuffer; // means (K·d) | factors (K·m) | logConst (K)
+  stats: SharedArrayBuffer; // one stats block per worker
+  n: number;
+  d: number;
+  k: number;
+  diagonal: boolean;
+  factorLength: number;
+  statsLength: number;
+  start: number;
+  end: number;
+  slot: number; // which stats block is this worker's
+}
