@@ -14,10 +14,10 @@
  */
 import path from 'node:path';
 import { MessageChannel, type MessagePort, Worker } from 'node:worker_threads';
-import { passDiag, passFull, scratchLength, statsLength } from '../mixture/estep';
+import { runKernel, scratchLength, statsLength } from '../mixture/estep';
 import type { PassEngine } from '../mixture/em';
 import { packedSize } from '../mixture/linalg';
-import type { Factors } from '../mixture/mstep';
+import { type Factors, kernelArrays } from '../mixture/mstep';
 import type { Gaussians } from '../mixture/types';
 import { CMD_CONFIG, CMD_EXIT, CMD_PASS, COMMAND, CONTROL_WORDS, DONE, FAILED, SEQ, type WorkerConfig } from './protocol';
 
@@ -36,6 +36,9 @@ interface Layout {
   means: Float64Array;
   factors: Float64Array;
   logConst: Float64Array;
+  centre: Float64Array;
+  prune: Float64Array; // one value
+  kernel: Float64Array; // one value
   stats: Float64Array; // (workers + 1) blocks; block 0 = main thread
   statsLength: number;
   scratch: Float64Array;
@@ -91,9 +94,9 @@ export async function createWorkerEngine(workers = 1): Promise<WorkerEngine> {
       rows = new Float64Array(new SharedArrayBuffer(n * d * 8));
       rows.set(x.subarray(0, n * d));
     }
-    const factorLength = k * (diagonal ? d : packedSize(d));
+    const factorLength = k * (diagonal ? d : d + packedSize(d)); // room for the quadratic form
     const kd = k * d;
-    const paramsBuf = new SharedArrayBuffer((kd + factorLength + k) * 8);
+    const paramsBuf = new SharedArrayBuffer((kd + factorLength + k + d + 2) * 8);
     const sl = statsLength(k, d, diagonal);
     const statsBuf = new SharedArrayBuffer((workers + 1) * sl * 8);
     const bounds = Array.from({ length: workers + 2 }, (_, i) => Math.round((i * n) / (workers + 1)));
@@ -126,6 +129,9 @@ export async function createWorkerEngine(workers = 1): Promise<WorkerEngine> {
       means: new Float64Array(paramsBuf, 0, kd),
       factors: new Float64Array(paramsBuf, kd * 8, factorLength),
       logConst: new Float64Array(paramsBuf, (kd + factorLength) * 8, k),
+      centre: new Float64Array(paramsBuf, (kd + factorLength + k) * 8, d),
+      prune: new Float64Array(paramsBuf, (kd + factorLength + k + d) * 8, 1),
+      kernel: new Float64Array(paramsBuf, (kd + factorLength + k + d + 1) * 8, 1),
       stats: new Float64Array(statsBuf),
       statsLength: sl,
       scratch: new Float64Array(scratchLength(k, d)),
@@ -146,13 +152,16 @@ export async function createWorkerEngine(workers = 1): Promise<WorkerEngine> {
       const L = layout;
       const rows = x.buffer instanceof SharedArrayBuffer ? x : L.x;
       L.means.set(g.means);
-      L.factors.set(f.factors);
-      L.logConst.set(f.logConst);
+      const a = kernelArrays(f);
+      L.factors.set(a.factors);
+      L.logConst.set(a.consts);
+      L.centre.set(f.centre);
+      L.prune[0] = f.prune;
+      L.kernel[0] = f.kernel;
       dispatch(CMD_PASS);
       const mine = L.stats.subarray(0, L.statsLength);
       mine.fill(0);
-      if (L.diagonal) passDiag(rows, 0, L.mainEnd, d, k, L.means, L.factors, L.logConst, L.scratch, mine);
-      else passFull(rows, 0, L.mainEnd, d, k, L.means, L.factors, L.logConst, L.scratch, mine);
+      runKernel(f.kernel, rows, 0, L.mainEnd, d, k, L.means, L.factors, L.logConst, L.centre, f.prune, L.scratch, mine);
       join();
       out.fill(0);
       for (let w = 0; w <= workers; w++) {

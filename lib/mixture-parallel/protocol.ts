@@ -12,7 +12,7 @@ export const CONTROL_WORDS = 4;
 
 export interface WorkerConfig {
   rows: SharedArrayBuffer;
-  params: SharedArrayBuffer; // means (K·d) | factors (K·m) | logConst (K)
+  params: SharedArrayBuffer; // means (K·d) | kernel factors | kernel constants (K) | centre (d) | prune (1) | kernel id (1)
   stats: SharedArrayBuffer; // one stats block per worker
   n: number;
   d: number;

@@ -3,7 +3,7 @@
  * the single-thread engine (lib/mixture/estep.ts) on its slice of the shared rows.
  */
 import { parentPort, receiveMessageOnPort, workerData, type MessagePort } from 'node:worker_threads';
-import { passDiag, passFull, scratchLength } from '../mixture/estep';
+import { runKernel, scratchLength } from '../mixture/estep';
 import { CMD_CONFIG, CMD_EXIT, CMD_PASS, COMMAND, DONE, FAILED, SEQ, type WorkerConfig } from './protocol';
 
 const { control, port } = workerData as { control: SharedArrayBuffer; port: MessagePort };
@@ -14,6 +14,9 @@ let x: Float64Array<ArrayBufferLike> = new Float64Array(0);
 let means: Float64Array<ArrayBufferLike> = new Float64Array(0);
 let factors: Float64Array<ArrayBufferLike> = new Float64Array(0);
 let logConst: Float64Array<ArrayBufferLike> = new Float64Array(0);
+let centre: Float64Array<ArrayBufferLike> = new Float64Array(0);
+let prune: Float64Array<ArrayBufferLike> = new Float64Array(1);
+let kernel: Float64Array<ArrayBufferLike> = new Float64Array(1);
 let stats: Float64Array<ArrayBufferLike> = new Float64Array(0);
 let scratch = new Float64Array(0);
 
@@ -31,6 +34,9 @@ function configure(): void {
   means = new Float64Array(c.params, 0, kd);
   factors = new Float64Array(c.params, kd * 8, c.factorLength);
   logConst = new Float64Array(c.params, (kd + c.factorLength) * 8, c.k);
+  centre = new Float64Array(c.params, (kd + c.factorLength + c.k) * 8, c.d);
+  prune = new Float64Array(c.params, (kd + c.factorLength + c.k + c.d) * 8, 1);
+  kernel = new Float64Array(c.params, (kd + c.factorLength + c.k + c.d + 1) * 8, 1);
   stats = new Float64Array(c.stats, c.slot * c.statsLength * 8, c.statsLength);
   scratch = new Float64Array(scratchLength(c.k, c.d));
 }
@@ -39,8 +45,7 @@ function pass(): void {
   const c = cfg;
   if (c === null) throw new Error('pass before configuration');
   stats.fill(0);
-  if (c.diagonal) passDiag(x, c.start, c.end, c.d, c.k, means, factors, logConst, scratch, stats);
-  else passFull(x, c.start, c.end, c.d, c.k, means, factors, logConst, scratch, stats);
+  runKernel(kernel[0], x, c.start, c.end, c.d, c.k, means, factors, logConst, centre, prune[0], scratch, stats);
 }
 
 let seen = Atomics.load(ctrl, SEQ);

@@ -9,10 +9,10 @@
  * scikit-learn's GaussianMixture uses, so fixed-start runs can be compared.)
  */
 import { MixtureError } from './errors';
-import { passDiag, passFull, scratchLength, statsLength } from './estep';
+import { runKernel, scratchLength, statsLength } from './estep';
 import { type InitMethod, initialGaussians } from './init';
 import { blockToMatrix } from './linalg';
-import { allocFactors, allocGaussians, cloneGaussians, type Factors, finishMStep, prepareFactors } from './mstep';
+import { allocFactors, allocGaussians, cloneGaussians, type Factors, finishMStep, kernelArrays, prepareFactors } from './mstep';
 import { SeededRandom } from './prng';
 import { applyScaler, covToOriginal, fitScaler, logJacobian, meanToOriginal, meanToScaled, type ScalerParams } from './scaler';
 import { COVARIANCES, type Covariance, type Gaussians, isDiagonalStructure } from './types';
@@ -40,6 +40,11 @@ export interface FitOptions {
   standardize?: boolean;
   /** feature names, used only in error messages */
   columnNames?: string[];
+  /**
+   * responsibilities below this add nothing to the M-step statistics (default 1e-15;
+   * below the rounding error of the sums, see estep.ts); 0 disables pruning
+   */
+  prune?: number;
   /** soft count below which a component counts as empty (default 1e-8) */
   minComponentCount?: number;
   onProgress?: (p: FitProgress) => void;
@@ -97,12 +102,14 @@ export interface PassEngine {
   run(x: Float64Array, n: number, d: number, g: Gaussians, f: Factors, stats: Float64Array): void;
 }
 
+export const DEFAULT_PRUNE = 1e-15;
+
 export const localEngine: PassEngine = {
   run(x, n, d, g, f, stats) {
     stats.fill(0);
     const scratch = new Float64Array(scratchLength(g.k, d));
-    if (f.diagonal) passDiag(x, 0, n, d, g.k, g.means, f.factors, f.logConst, scratch, stats);
-    else passFull(x, 0, n, d, g.k, g.means, f.factors, f.logConst, scratch, stats);
+    const a = kernelArrays(f);
+    runKernel(f.kernel, x, 0, n, d, g.k, g.means, a.factors, a.consts, f.centre, f.prune, scratch, stats);
   },
 };
 
@@ -151,6 +158,7 @@ function checkOptions(n: number, opts: FitOptions): void {
   };
   nonNeg('tol', opts.tol, false);
   nonNeg('regCovar', opts.regCovar, false);
+  nonNeg('prune', opts.prune, false);
   if (opts.maxIter !== undefined && (!Number.isInteger(opts.maxIter) || opts.maxIter < 1)) {
     throw new MixtureError('BAD_INPUT', `maxIter must be a positive integer (got ${opts.maxIter}).`);
   }
@@ -188,6 +196,7 @@ export function fitMixtureWith(rows: Float64Array, n: number, d: number, opts: F
   const restarts = opts.restarts ?? 1;
   const standardize = opts.standardize ?? true;
   const minCount = opts.minComponentCount ?? 1e-8;
+  const prune = opts.prune ?? DEFAULT_PRUNE;
   const init: FitOptions['init'] = opts.init ?? 'kmeans++';
 
   // a constant column is rejected either way (it would make every covariance singular)
@@ -208,7 +217,7 @@ export function fitMixtureWith(rows: Float64Array, n: number, d: number, opts: F
   const rng = new SeededRandom(seed);
   const diag = isDiagonalStructure(covariance);
   const stats = new Float64Array(statsLength(k, d, diag));
-  const factors = allocFactors(k, d, diag);
+  const factors = allocFactors(k, d, diag, prune);
 
   let best: { g: Gaussians; ll: number; trace: number[]; iterations: number; converged: boolean; restart: number } | null = null;
   const summaries: RestartSummary[] = [];
@@ -231,7 +240,7 @@ export function fitMixtureWith(rows: Float64Array, n: number, d: number, opts: F
           throw new MixtureError('NOT_POSITIVE_DEFINITE', `The log-likelihood became non-finite at iteration ${it}; try a larger regularisation or standardised features.`);
         }
         trace.push(mean - jac);
-        finishMStep(stats, g, spare, n, reg, minCount, it);
+        finishMStep(stats, factors.centre, g, spare, n, reg, minCount, it);
         const t = g;
         g = spare;
         spare = t;

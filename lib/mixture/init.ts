@@ -75,23 +75,25 @@ export function initialGaussians(
     const m = diag ? d : packedSize(d);
     const oS1 = 1 + k;
     const oS2 = 1 + k + k * d;
+    // hard-label statistics, centred on the data mean (same layout as the EM pass)
+    const { mean: centre } = pooledMoments(x, n, d);
     for (let r = 0; r < n; r++) {
       const c = labels[r];
       stats[1 + c] += 1;
       let p = oS2 + c * m;
       for (let i = 0; i < d; i++) {
-        const di = x[r * d + i] - centers[c * d + i];
-        stats[oS1 + c * d + i] += di;
-        if (diag) stats[p + i] += di * di;
+        const ui = x[r * d + i] - centre[i];
+        stats[oS1 + c * d + i] += ui;
+        if (diag) stats[p + i] += ui * ui;
         else {
-          for (let j = 0; j <= i; j++) stats[p + j] += di * (x[r * d + j] - centers[c * d + j]);
+          for (let j = 0; j <= i; j++) stats[p + j] += ui * (x[r * d + j] - centre[j]);
           p += i + 1;
         }
       }
     }
     const prev = allocGaussians(k, d, covariance);
     prev.means.set(centers);
-    finishMStep(stats, prev, g, n, reg, 0.5, 0);
+    finishMStep(stats, centre, prev, g, n, reg, 0.5, 0);
     return g;
   }
   const cov = pooledCovariance(x, n, d, covariance, reg);

@@ -4,7 +4,7 @@
  * Both are O(K·d³) — negligible next to the O(N·K·d²) pass.
  */
 import { MixtureError } from './errors';
-import { LOG_2PI } from './estep';
+import { KERNEL_DIAGONAL, KERNEL_QUADRATIC, KERNEL_TRIANGULAR, LOG_2PI } from './estep';
 import { choleskyInto, halfLogDet, invertLowerPacked, packedSize } from './linalg';
 import { type Gaussians, isDiagonalStructure } from './types';
 
@@ -16,17 +16,45 @@ export interface Factors {
   /** packed lower inverse Cholesky (K·d(d+1)/2) or 1/σ (K·d) */
   factors: Float64Array;
   logConst: Float64Array; // K
-  /** dense Cholesky scratch (d·d) */
+  /** which pass kernel the engine should run (KERNEL_* in estep.ts) */
+  kernel: number;
+  /** quadratic-feature coefficients (K·(d + d(d+1)/2)) and constants (K), full/tied only */
+  quad: Float64Array;
+  quadConst: Float64Array;
+  /** shared centre of the statistics (d): Σ_k w_k μ_k */
+  centre: Float64Array;
+  /** responsibilities below this add nothing to the statistics (see estep.ts) */
+  prune: number;
+  /** dense Cholesky and precision scratch (d·d) */
   chol: Float64Array;
+  prec: Float64Array;
 }
 
-export function allocFactors(k: number, d: number, diagonal: boolean): Factors {
+export function allocFactors(k: number, d: number, diagonal: boolean, prune = 0): Factors {
   return {
     diagonal,
     factors: new Float64Array(k * (diagonal ? d : packedSize(d))),
     logConst: new Float64Array(k),
+    kernel: diagonal ? KERNEL_DIAGONAL : KERNEL_TRIANGULAR,
+    quad: new Float64Array(diagonal ? 0 : k * (d + packedSize(d))),
+    quadConst: new Float64Array(k),
+    centre: new Float64Array(d),
+    prune,
     chol: new Float64Array(d * d),
+    prec: new Float64Array(d * d),
   };
+}
+
+/**
+ * Conditioning bound above which the quadratic-feature kernel is not used:
+ * max_ij |P_ij|·√(Σ_ii Σ_jj), invariant to feature units (for two features with
+ * correlation ρ it is 1/(1−ρ²)). At 1e6 the extra cancellation costs ~1e-10 in a log density.
+ */
+export const QUADRATIC_CONDITION_LIMIT = 1e6;
+
+/** The array pair the engine hands to runKernel for these factors. */
+export function kernelArrays(f: Factors): { factors: Float64Array; consts: Float64Array } {
+  return f.kernel === KERNEL_QUADRATIC ? { factors: f.quad, consts: f.quadConst } : { factors: f.factors, consts: f.logConst };
 }
 
 const HINT =
@@ -36,6 +64,13 @@ const HINT =
 export function prepareFactors(g: Gaussians, out: Factors): void {
   const { k, d } = g;
   const m = packedSize(d);
+  out.centre.fill(0);
+  let wsum = 0;
+  for (let c = 0; c < k; c++) {
+    wsum += g.weights[c];
+    for (let i = 0; i < d; i++) out.centre[i] += g.weights[c] * g.means[c * d + i];
+  }
+  for (let i = 0; i < d; i++) out.centre[i] /= wsum;
   for (let c = 0; c < k; c++) {
     const w = g.weights[c];
     let halfLog = 0;
@@ -64,14 +99,59 @@ export function prepareFactors(g: Gaussians, out: Factors): void {
     }
     out.logConst[c] = Math.log(w) - 0.5 * d * LOG_2PI - halfLog;
   }
+  if (!out.diagonal) out.kernel = quadraticForm(g, out) ? KERNEL_QUADRATIC : KERNEL_TRIANGULAR;
+}
+
+/** Fill out.quad / out.quadConst from the packed inverse factors; false if ill-conditioned. */
+function quadraticForm(g: Gaussians, out: Factors): boolean {
+  const { k, d } = g;
+  const m = packedSize(d);
+  const t = d + m;
+  const P = out.prec;
+  let worst = 0;
+  for (let c = 0; c < k; c++) {
+    const f = c * m;
+    // P = FᵀF with F packed lower: P_ij = Σ_{l ≥ max(i,j)} F_li F_lj
+    for (let i = 0; i < d; i++) {
+      for (let j = 0; j <= i; j++) {
+        let s = 0;
+        for (let l = i; l < d; l++) s += out.factors[f + (l * (l + 1)) / 2 + i] * out.factors[f + (l * (l + 1)) / 2 + j];
+        P[i * d + j] = s;
+        P[j * d + i] = s;
+      }
+    }
+    // scale-free conditioning measure: max_ij |P_ij|·√(Σ_ii Σ_jj) (1 for uncorrelated features)
+    const co = c * d * d;
+    for (let i = 0; i < d; i++) {
+      for (let j = 0; j <= i; j++) {
+        const v = Math.abs(P[i * d + j]) * Math.sqrt(g.covs[co + i * d + i] * g.covs[co + j * d + j]);
+        if (!(v <= worst)) worst = v;
+      }
+    }
+    const a = c * t;
+    let mPm = 0;
+    for (let i = 0; i < d; i++) {
+      let s = 0;
+      for (let j = 0; j < d; j++) s += P[i * d + j] * (g.means[c * d + j] - out.centre[j]);
+      out.quad[a + i] = s;
+      mPm += s * (g.means[c * d + i] - out.centre[i]);
+    }
+    let p = a + d;
+    for (let i = 0; i < d; i++) {
+      for (let j = 0; j < i; j++) out.quad[p++] = -P[i * d + j];
+      out.quad[p++] = -0.5 * P[i * d + i];
+    }
+    out.quadConst[c] = out.logConst[c] - 0.5 * mPm;
+  }
+  return worst <= QUADRATIC_CONDITION_LIMIT;
 }
 
 /**
  * M-step from statistics summed over all rows (layout in estep.ts), centred on
- * `prev.means`. Writes the new parameters into `next` (may not alias `prev`).
+ * `centre` (o). Writes the new parameters into `next` (may not alias `prev`).
  *
  *  weights  w_k = n_k / N
- *  means    μ_k = μ_k(old) + s1_k / n_k
+ *  means    μ_k = o + s1_k / n_k
  *  full     Σ_k = s2_k / n_k − a aᵀ + reg·I,           a = s1_k / n_k
  *  tied     Σ   = Σ_k (s2_k − n_k a aᵀ) / Σ_k n_k + reg·I
  *  diagonal σ²_kj = s2_kj / n_k − a_j² + reg
@@ -81,6 +161,7 @@ export function prepareFactors(g: Gaussians, out: Factors): void {
  */
 export function finishMStep(
   stats: Float64Array,
+  centre: Float64Array,
   prev: Gaussians,
   next: Gaussians,
   n: number,
@@ -110,7 +191,7 @@ export function finishMStep(
     const nk = stats[1 + c] + COUNT_EPS;
     next.weights[c] = nk / n;
     for (let i = 0; i < d; i++) {
-      next.means[c * d + i] = prev.means[c * d + i] + stats[oS1 + c * d + i] / nk;
+      next.means[c * d + i] = centre[i] + stats[oS1 + c * d + i] / nk;
     }
     const co = c * dd;
     if (diag) {

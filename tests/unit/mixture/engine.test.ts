@@ -183,3 +183,47 @@ describe('model choice', () => {
     }
   });
 });
+
+describe('pass kernels agree', () => {
+  it('quadratic-feature and triangular kernels give the same statistics', async () => {
+    const { passFull, passQuadratic, scratchLength, statsLength } = await import('../../../lib/mixture/estep');
+    const { allocFactors, prepareFactors } = await import('../../../lib/mixture/mstep');
+    const n = 500;
+    const d = 4;
+    const k = 3;
+    const { x } = synthBlobs(12, n, d, k);
+    const fit = fitMixture(x, n, d, { components: k, covariance: 'full', standardize: false, maxIter: 3, seed: 1 });
+    const g = {
+      k,
+      d,
+      covariance: 'full' as const,
+      weights: Float64Array.from(fit.weights),
+      means: Float64Array.from(fit.means.flat()),
+      covs: Float64Array.from(fit.covariances.flat(2)),
+    };
+    const f = allocFactors(k, d, false, 0);
+    prepareFactors(g, f);
+    expect(f.kernel).toBe(1); // well conditioned → quadratic form chosen
+    const a = new Float64Array(statsLength(k, d, false));
+    const b = new Float64Array(statsLength(k, d, false));
+    passFull(x, 0, n, d, k, g.means, f.factors, f.logConst, f.centre, 0, new Float64Array(scratchLength(k, d)), a);
+    passQuadratic(x, 0, n, d, k, f.quad, f.quadConst, f.centre, 0, new Float64Array(scratchLength(k, d)), b);
+    for (let i = 0; i < a.length; i++) expect(Math.abs(a[i] - b[i])).toBeLessThan(1e-9 * Math.max(1, Math.abs(a[i])));
+  });
+
+  it('falls back to the triangular kernel for nearly collinear features', async () => {
+    const { allocFactors, prepareFactors } = await import('../../../lib/mixture/mstep');
+    const rho = 1 - 1e-9;
+    const g = {
+      k: 1,
+      d: 2,
+      covariance: 'full' as const,
+      weights: Float64Array.from([1]),
+      means: Float64Array.from([0, 0]),
+      covs: Float64Array.from([1, rho, rho, 1]),
+    };
+    const f = allocFactors(1, 2, false, 0);
+    prepareFactors(g, f);
+    expect(f.kernel).toBe(0);
+  });
+});
