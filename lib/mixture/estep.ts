@@ -29,9 +29,9 @@ export function statsLength(k: number, d: number, diagonal: boolean): number {
   return 1 + k + k * d + k * (diagonal ? d : packedSize(d));
 }
 
-/** Scratch buffer length needed by the kernels: δ (K·d) | log p (K) | u (d) | uuᵀ (m). */
+/** Scratch length that fits every kernel's layout (see each kernel). */
 export function scratchLength(k: number, d: number): number {
-  return k * (d + 1) + d + packedSize(d);
+  return Math.max(k * (d + 1) + d + packedSize(d), QUAD_BLOCK * (d + packedSize(d) + k));
 }
 
 /**
@@ -118,7 +118,14 @@ export function passFull(
  * precision matrices are well conditioned (see mstep.ts); otherwise passFull runs.
  * Components more than 40 nats below the row's best are not exponentiated
  * (e⁻⁴⁰ ≈ 4·10⁻¹⁸ is below double resolution next to the best term's 1).
+ *
+ * Rows go in blocks of QUAD_BLOCK: the block's features Φ (B×t) are formed once, the log
+ * densities are the small product Φ·Aᵀ and the statistics the product Wᵀ·Φ (W the B×K
+ * responsibilities), both tiled so that every value loaded feeds several sums.
+ * Scratch layout: Φ (B·t, row-major) | W (B·K, row-major).
  */
+export const QUAD_BLOCK = 64;
+
 export function passQuadratic(
   x: Float64Array,
   start: number,
@@ -132,56 +139,160 @@ export function passQuadratic(
   scratch: Float64Array,
   stats: Float64Array,
 ): void {
+  const B = QUAD_BLOCK;
   const m = (d * (d + 1)) >> 1;
   const t = d + m;
-  const kd = k * d;
-  const oU = kd + k;
-  const oUU = oU + d;
+  const t4 = t & ~3;
+  const oW = B * t; // Φ block (B·t, row-major) | W block (B·k, row-major)
   const oS1 = 1 + k;
-  const oS2 = 1 + k + kd;
+  const oS2 = 1 + k + k * d;
   let ll = 0;
-  for (let r = start; r < end; r++) {
-    const xo = r * d;
-    let p = oUU;
-    for (let i = 0; i < d; i++) {
-      const ui = x[xo + i] - centre[i];
-      scratch[oU + i] = ui;
-      for (let j = 0; j < i; j++) scratch[p++] = ui * scratch[oU + j];
-      scratch[p++] = ui * ui;
-    }
-    let maxLp = -Infinity;
-    for (let c = 0; c < k; c++) {
-      const a = c * t;
-      let lp = quadConst[c];
-      for (let q = 0; q < t; q++) lp += coef[a + q] * scratch[oU + q];
-      scratch[kd + c] = lp;
-      if (lp > maxLp) maxLp = lp;
-    }
-    let sum = 0;
-    const floor = maxLp - 40;
-    for (let c = 0; c < k; c++) {
-      const lp = scratch[kd + c];
-      if (lp < floor) {
-        scratch[kd + c] = 0;
-        continue;
+  for (let r0 = start; r0 < end; r0 += B) {
+    const b = Math.min(B, end - r0);
+    // features φ_r = [u, packed uuᵀ], u = x_r − o
+    for (let r = 0; r < b; r++) {
+      const xo = (r0 + r) * d;
+      const fo = r * t;
+      let p = fo + d;
+      for (let i = 0; i < d; i++) {
+        const ui = x[xo + i] - centre[i];
+        scratch[fo + i] = ui;
+        for (let j = 0; j < i; j++) scratch[p++] = ui * scratch[fo + j];
+        scratch[p++] = ui * ui;
       }
-      const e = Math.exp(lp - maxLp);
-      scratch[kd + c] = e;
-      sum += e;
     }
-    ll += maxLp + Math.log(sum);
-    const inv = 1 / sum;
+    // log w_k N(x_r | k) = c_k + a_k·φ_r for the block: Φ Aᵀ, tiled 2 rows × 2 components
+    let r = 0;
+    for (; r + 1 < b; r += 2) {
+      const f0 = r * t;
+      const f1 = f0 + t;
+      let c = 0;
+      for (; c + 1 < k; c += 2) {
+        const a0 = c * t;
+        const a1 = a0 + t;
+        let s00 = quadConst[c];
+        let s01 = quadConst[c + 1];
+        let s10 = s00;
+        let s11 = s01;
+        for (let q = 0; q < t; q++) {
+          const p0 = scratch[f0 + q];
+          const p1 = scratch[f1 + q];
+          const ca = coef[a0 + q];
+          const cb = coef[a1 + q];
+          s00 += ca * p0;
+          s01 += cb * p0;
+          s10 += ca * p1;
+          s11 += cb * p1;
+        }
+        scratch[oW + r * k + c] = s00;
+        scratch[oW + r * k + c + 1] = s01;
+        scratch[oW + (r + 1) * k + c] = s10;
+        scratch[oW + (r + 1) * k + c + 1] = s11;
+      }
+      for (; c < k; c++) {
+        const a0 = c * t;
+        let s0 = quadConst[c];
+        let s1 = s0;
+        for (let q = 0; q < t; q++) {
+          s0 += coef[a0 + q] * scratch[f0 + q];
+          s1 += coef[a0 + q] * scratch[f1 + q];
+        }
+        scratch[oW + r * k + c] = s0;
+        scratch[oW + (r + 1) * k + c] = s1;
+      }
+    }
+    for (; r < b; r++) {
+      for (let c = 0; c < k; c++) {
+        let s0 = quadConst[c];
+        for (let q = 0; q < t; q++) s0 += coef[c * t + q] * scratch[r * t + q];
+        scratch[oW + r * k + c] = s0;
+      }
+    }
+    // per row: log-sum-exp, responsibilities (terms 40 nats below the best are 0)
+    for (let r = 0; r < b; r++) {
+      const wo = oW + r * k;
+      let maxLp = -Infinity;
+      for (let c = 0; c < k; c++) if (scratch[wo + c] > maxLp) maxLp = scratch[wo + c];
+      let sum = 0;
+      const floor = maxLp - 40;
+      for (let c = 0; c < k; c++) {
+        const lp = scratch[wo + c];
+        const e = lp < floor ? 0 : Math.exp(lp - maxLp);
+        scratch[wo + c] = e;
+        sum += e;
+      }
+      ll += maxLp + Math.log(sum);
+      const inv = 1 / sum;
+      for (let c = 0; c < k; c++) {
+        const w = scratch[wo + c] * inv;
+        scratch[wo + c] = w < prune ? 0 : w;
+      }
+    }
+    // statistics: n_k = Σ_r W_rk;  [s1_k, s2_k] = Σ_r W_rk φ_r — a small Wᵀ Φ product,
+    // tiled 2 components × 4 features so each loaded value feeds several sums
     for (let c = 0; c < k; c++) {
-      const w = scratch[kd + c] * inv;
-      if (w < prune || w === 0) continue;
-      stats[1 + c] += w;
-      const s1 = oS1 + c * d;
-      for (let i = 0; i < d; i++) stats[s1 + i] += w * scratch[oU + i];
-      const s2 = oS2 + c * m;
-      for (let q = 0; q < m; q++) stats[s2 + q] += w * scratch[oUU + q];
+      let s = 0;
+      for (let r = 0; r < b; r++) s += scratch[oW + r * k + c];
+      stats[1 + c] += s;
+    }
+    let c = 0;
+    for (; c + 1 < k; c += 2) {
+      let q = 0;
+      for (; q < t4; q += 4) {
+        let a0 = 0, a1 = 0, a2 = 0, a3 = 0, b0 = 0, b1 = 0, b2 = 0, b3 = 0;
+        for (let r = 0; r < b; r++) {
+          const w0 = scratch[oW + r * k + c];
+          const w1 = scratch[oW + r * k + c + 1];
+          const fo = r * t + q;
+          const f0 = scratch[fo];
+          const f1 = scratch[fo + 1];
+          const f2 = scratch[fo + 2];
+          const f3 = scratch[fo + 3];
+          a0 += w0 * f0;
+          a1 += w0 * f1;
+          a2 += w0 * f2;
+          a3 += w0 * f3;
+          b0 += w1 * f0;
+          b1 += w1 * f1;
+          b2 += w1 * f2;
+          b3 += w1 * f3;
+        }
+        addStat(stats, c, q, a0, d, m, oS1, oS2);
+        addStat(stats, c, q + 1, a1, d, m, oS1, oS2);
+        addStat(stats, c, q + 2, a2, d, m, oS1, oS2);
+        addStat(stats, c, q + 3, a3, d, m, oS1, oS2);
+        addStat(stats, c + 1, q, b0, d, m, oS1, oS2);
+        addStat(stats, c + 1, q + 1, b1, d, m, oS1, oS2);
+        addStat(stats, c + 1, q + 2, b2, d, m, oS1, oS2);
+        addStat(stats, c + 1, q + 3, b3, d, m, oS1, oS2);
+      }
+      for (; q < t; q++) {
+        let a0 = 0;
+        let b0 = 0;
+        for (let r = 0; r < b; r++) {
+          const f = scratch[r * t + q];
+          a0 += scratch[oW + r * k + c] * f;
+          b0 += scratch[oW + r * k + c + 1] * f;
+        }
+        addStat(stats, c, q, a0, d, m, oS1, oS2);
+        addStat(stats, c + 1, q, b0, d, m, oS1, oS2);
+      }
+    }
+    for (; c < k; c++) {
+      for (let q = 0; q < t; q++) {
+        let a0 = 0;
+        for (let r = 0; r < b; r++) a0 += scratch[oW + r * k + c] * scratch[r * t + q];
+        addStat(stats, c, q, a0, d, m, oS1, oS2);
+      }
     }
   }
   stats[0] += ll;
+}
+
+/** Feature q of φ: q < d is s1[c][q], otherwise s2[c][q − d]. */
+function addStat(stats: Float64Array, c: number, q: number, v: number, d: number, m: number, oS1: number, oS2: number): void {
+  if (q < d) stats[oS1 + c * d + q] += v;
+  else stats[oS2 + c * m + q - d] += v;
 }
 
 export const KERNEL_TRIANGULAR = 0;
