@@ -4,8 +4,8 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { parseModelJson } from '../../../lib/mixture';
-import { loadIris } from './helpers';
+import { fitMixture, parseModelJson } from '../../../lib/mixture';
+import { flat, loadIris } from './helpers';
 
 const ROOT = path.resolve(__dirname, '../../..');
 const TSX = path.join(ROOT, 'node_modules/.bin/tsx');
@@ -53,6 +53,25 @@ describe('fit and score CLI', () => {
     expect(model.ranking![0].rank).toBe(1);
     expect(model.ranking![0].bic).toBe(model.bic);
     expect(model.features).toHaveLength(2);
+  });
+
+  it('--init rows:… gives the same fit as the library from those rows', () => {
+    const r = run('fit', [iris, '--components', '3', '--init', 'rows:0,50,100', '--tol', '1e-8', '--max-iter', '500', '--no-standardize']);
+    expect(r.code).toBe(0);
+    const model = parseModelJson(r.out);
+    const rows = loadIris();
+    const lib = fitMixture(flat(rows), 150, 4, {
+      components: 3,
+      covariance: 'full',
+      init: { means: [rows[0], rows[50], rows[100]] },
+      tol: 1e-8,
+      maxIter: 500,
+      standardize: false,
+    });
+    expect(model.iterations).toBe(lib.iterations);
+    expect(model.logLikelihood).toBe(lib.logLikelihood);
+    expect(model.means).toEqual(lib.means);
+    expect(model.settings).toMatchObject({ init: 'means', standardized: false });
   });
 
   it.each([
