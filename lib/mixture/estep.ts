@@ -143,7 +143,8 @@ export function passQuadratic(
   const m = (d * (d + 1)) >> 1;
   const t = d + m;
   const t4 = t & ~3;
-  const oW = B * t; // Φ block (B·t, row-major) | W block (B·k, row-major)
+  const oW = B * t;
+  // Φ block (B·t, row-major) | W block (B·k, row-major);
   const oS1 = 1 + k;
   const oS2 = 1 + k + k * d;
   let ll = 0;
@@ -163,6 +164,71 @@ export function passQuadratic(
     }
     // log w_k N(x_r | k) = c_k + a_k·φ_r for the block: Φ Aᵀ, tiled 2 rows × 2 components
     let r = 0;
+    // 4 rows × 2 components: 6 loads feed 8 multiply-adds
+    for (; r + 3 < b; r += 4) {
+      const f0 = r * t;
+      const f1 = f0 + t;
+      const f2 = f1 + t;
+      const f3 = f2 + t;
+      let c = 0;
+      for (; c + 1 < k; c += 2) {
+        const a0 = c * t;
+        const a1 = a0 + t;
+        const ka = quadConst[c];
+        const kb = quadConst[c + 1];
+        let s0a = ka;
+        let s0b = kb;
+        let s1a = ka;
+        let s1b = kb;
+        let s2a = ka;
+        let s2b = kb;
+        let s3a = ka;
+        let s3b = kb;
+        for (let q = 0; q < t; q++) {
+          const ca = coef[a0 + q];
+          const cb = coef[a1 + q];
+          const p0 = scratch[f0 + q];
+          const p1 = scratch[f1 + q];
+          const p2 = scratch[f2 + q];
+          const p3 = scratch[f3 + q];
+          s0a += ca * p0;
+          s0b += cb * p0;
+          s1a += ca * p1;
+          s1b += cb * p1;
+          s2a += ca * p2;
+          s2b += cb * p2;
+          s3a += ca * p3;
+          s3b += cb * p3;
+        }
+        const w0 = oW + r * k + c;
+        scratch[w0] = s0a;
+        scratch[w0 + 1] = s0b;
+        scratch[w0 + k] = s1a;
+        scratch[w0 + k + 1] = s1b;
+        scratch[w0 + 2 * k] = s2a;
+        scratch[w0 + 2 * k + 1] = s2b;
+        scratch[w0 + 3 * k] = s3a;
+        scratch[w0 + 3 * k + 1] = s3b;
+      }
+      for (; c < k; c++) {
+        const a0 = c * t;
+        let s0 = quadConst[c];
+        let s1 = s0;
+        let s2 = s0;
+        let s3 = s0;
+        for (let q = 0; q < t; q++) {
+          const ca = coef[a0 + q];
+          s0 += ca * scratch[f0 + q];
+          s1 += ca * scratch[f1 + q];
+          s2 += ca * scratch[f2 + q];
+          s3 += ca * scratch[f3 + q];
+        }
+        scratch[oW + r * k + c] = s0;
+        scratch[oW + (r + 1) * k + c] = s1;
+        scratch[oW + (r + 2) * k + c] = s2;
+        scratch[oW + (r + 3) * k + c] = s3;
+      }
+    }
     for (; r + 1 < b; r += 2) {
       const f0 = r * t;
       const f1 = f0 + t;
