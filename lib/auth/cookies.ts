@@ -1,0 +1,28 @@
+/** Parse a Cookie header into name → value (last one wins, values URI-decoded). */
+export function parseCookies(header: string | null | undefined): Record<string, string> {
+  const out: Record<string, string> = {};
+  if (!header) return out;
+  for (const part of header.split(';')) {
+    const eq = part.indexOf('=');
+    if (eq < 0) continue;
+    const name = part.slice(0, eq).trim();
+    const raw = part.slice(eq + 1).trim();
+    try {
+      out[name] = decodeURIComponent(raw);
+    } catch {
+      out[name] = raw;
+    }
+  }
+  return out;
+}
+
+/** The cookie that remembers which of a user's workspaces is current. */
+export const WORKSPACE_COOKIE = 'partwise.workspace';
+
+export function useSecureCookies(): boolean {
+  return (process.env.NEXTAUTH_URL ?? '').startsWith('https://');
+}
+
+export function sessionCookieName(): string {
+  return useSecureCookies() ? '__Secure-next-auth.session-token' : 'next-auth.session-token';
+}

@@ -1,0 +1,66 @@
+import { ZodError, type ZodType, z } from 'zod';
+import { AppError, type FieldIssue } from '@/lib/errors';
+
+/** zod issues → our field issues, with dotted paths a form can map back to fields. */
+export function zodIssues(error: ZodError): FieldIssue[] {
+  return error.issues.map((i) => ({ field: i.path.map(String).join('.') || '(body)', message: i.message }));
+}
+
+export function parseWith<T>(schema: ZodType<T>, value: unknown, what = 'input'): T {
+  const result = schema.safeParse(value);
+  if (!result.success) {
+    const issues = zodIssues(result.error);
+    throw new AppError('invalid_input', `The ${what} has ${issues.length} problem${issues.length === 1 ? '' : 's'}: ${issues.map((i) => `${i.field}: ${i.message}`).join('; ')}`, { issues });
+  }
+  return result.data;
+}
+
+const MAX_JSON_BYTES = 64 * 1024;
+
+/** Read a JSON body with a size cap and content-type check, then validate it. */
+export async function readJson<T>(request: Request, schema: ZodType<T>, opts: { maxBytes?: number } = {}): Promise<T> {
+  const max = opts.maxBytes ?? MAX_JSON_BYTES;
+  const type = request.headers.get('content-type') ?? '';
+  if (!/^application\/json\b/i.test(type)) {
+    throw new AppError('unsupported_media_type', 'Send the body as JSON (Content-Type: application/json).');
+  }
+  const declared = Number(request.headers.get('content-length') ?? '0');
+  if (declared > max) throw new AppError('payload_too_large', `The body is larger than ${max} bytes.`);
+  const text = await request.text();
+  if (Buffer.byteLength(text) > max) throw new AppError('payload_too_large', `The body is larger than ${max} bytes.`);
+  let value: unknown;
+  try {
+    value = JSON.parse(text);
+  } catch {
+    throw new AppError('bad_request', 'The body is not valid JSON.');
+  }
+  return parseWith(schema, value, 'request body');
+}
+
+/** Route params arrive as a promise in the App Router; validate them like a body. */
+export async function readParams<T>(params: Promise<unknown> | unknown, schema: ZodType<T>): Promise<T> {
+  return parseWith(schema, await params, 'address');
+}
+
+export const idParam = z.object({ id: z.coerce.number().int().positive() });
+
+type Handler<C> = (request: Request, context: C) => Promise<Response> | Response;
+
+/**
+ * Wrap a route handler: AppError → its status, ZodError → 422, anything else → a 500
+ * that logs the cause on the server and tells the client nothing internal.
+ */
+export function route<C = { params: Promise<Record<string, string>> }>(fn: Handler<C>): Handler<C> {
+  return async (request, context) => {
+    try {
+      return await fn(request, context);
+    } catch (error) {
+      if (error instanceof ZodError) {
+        return new AppError('invalid_input', 'The input is not valid.', { issues: zodIssues(error) }).toResponse();
+      }
+      const appError = AppError.from(error);
+      if (appError.code === 'internal') console.error('[partwise] unhandled error in', request.method, new URL(request.url).pathname, error);
+      return appError.toResponse();
+    }
+  };
+}

@@ -1,0 +1,72 @@
+/**
+ * The one place that knows Partwise's plans and their limits. Every limit check in
+ * the app asks this module; prices here are shown on the pricing section and are
+ * mirrored as prices in the payment service by the billing setup.
+ */
+export const PLAN_IDS = ['sketch', 'bench', 'lab'] as const;
+export type PlanId = (typeof PLAN_IDS)[number];
+
+export interface PlanLimits {
+  /** Calculators published and not retired at once. */
+  calculators: number;
+  /** Scored answers per calendar month, across all calculators. */
+  answersPerMonth: number;
+  /** Rows (after dropping incomplete ones) in one uploaded dataset. */
+  datasetRows: number;
+  /** Upload size in bytes. */
+  uploadBytes: number;
+  /** People in the workspace, owners included. */
+  seats: number;
+}
+
+export interface Plan {
+  id: PlanId;
+  name: string;
+  tagline: string;
+  /** Monthly price in euro cents. */
+  monthlyPrice: number;
+  limits: PlanLimits;
+}
+
+export const PLANS: Record<PlanId, Plan> = {
+  sketch: {
+    id: 'sketch',
+    name: 'Sketch',
+    tagline: 'Try an idea on a small table and share one calculator.',
+    monthlyPrice: 0,
+    limits: { calculators: 1, answersPerMonth: 500, datasetRows: 2_000, uploadBytes: 2 * 1024 * 1024, seats: 1 },
+  },
+  bench: {
+    id: 'bench',
+    name: 'Bench',
+    tagline: 'For one analyst who publishes calculators people rely on.',
+    monthlyPrice: 1900,
+    limits: { calculators: 5, answersPerMonth: 20_000, datasetRows: 50_000, uploadBytes: 20 * 1024 * 1024, seats: 1 },
+  },
+  lab: {
+    id: 'lab',
+    name: 'Lab',
+    tagline: 'A shared workspace for a team and its busier calculators.',
+    monthlyPrice: 7900,
+    limits: { calculators: 25, answersPerMonth: 250_000, datasetRows: 250_000, uploadBytes: 60 * 1024 * 1024, seats: 10 },
+  },
+};
+
+export const DEFAULT_PLAN: PlanId = 'sketch';
+
+/** Answers past the monthly limit still served before calculators pause, as a share of the limit. */
+export const ANSWER_GRACE = 0.05;
+/** Shares of the monthly answer limit at which the owner is e-mailed. */
+export const ANSWER_ALERT_THRESHOLDS = [0.8, 1] as const;
+
+export function getPlan(id: string | null | undefined): Plan {
+  return PLANS[(PLAN_IDS as readonly string[]).includes(id ?? '') ? (id as PlanId) : DEFAULT_PLAN];
+}
+
+export function isPlanId(id: string): id is PlanId {
+  return (PLAN_IDS as readonly string[]).includes(id);
+}
+
+export function formatPrice(cents: number): string {
+  return cents === 0 ? 'Free' : `€${(cents / 100).toFixed(cents % 100 === 0 ? 0 : 2)}`;
+}

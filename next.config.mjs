@@ -1,0 +1,30 @@
+/** @type {import('next').NextConfig} */
+const nextConfig = {
+  // Native/ORM packages must stay as runtime requires, not bundled.
+  serverExternalPackages: ['sequelize', 'sqlite3', 'umzug', 'smtp-server', 'mailparser', 'nodemailer'],
+  poweredByHeader: false,
+  reactStrictMode: true,
+  async headers() {
+    // Pages are never framed except the calculator, which sets its own CSP per embed.
+    return [
+      {
+        source: '/((?!embed/).*)',
+        headers: [
+          { key: 'X-Frame-Options', value: 'DENY' },
+          { key: 'Content-Security-Policy', value: "frame-ancestors 'none'" },
+          { key: 'X-Content-Type-Options', value: 'nosniff' },
+          { key: 'Referrer-Policy', value: 'strict-origin-when-cross-origin' },
+        ],
+      },
+      {
+        source: '/embed/:path*',
+        headers: [
+          { key: 'X-Content-Type-Options', value: 'nosniff' },
+          { key: 'Referrer-Policy', value: 'strict-origin-when-cross-origin' },
+        ],
+      },
+    ];
+  },
+};
+
+export default nextConfig;

@@ -1,0 +1,71 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import { spawn } from 'node:child_process';
+import { openSequelize, databasePath } from '@/models/db';
+import { createMigrator } from '@/lib/db/migrator';
+import { buildIsStale } from './lib/build-state';
+import { run } from './lib/run';
+import { startServices, stopServices } from './services';
+import { seedDemo } from './seed';
+
+/**
+ * `npm start`: migrate (refusing to serve if that fails), seed the demo once, start
+ * the local service fakes, build when sources changed, then serve on PORT.
+ */
+async function main() {
+  const dev = process.argv.includes('--dev');
+  const port = process.env.PORT ?? '3000';
+  const appUrl = process.env.NEXTAUTH_URL ?? `http://localhost:${port}`;
+  const dataDir = path.resolve(process.env.PARTWISE_DATA_DIR ?? 'data');
+  fs.mkdirSync(dataDir, { recursive: true });
+
+  const file = databasePath();
+  const sequelize = openSequelize(file);
+  try {
+    const applied = await createMigrator(sequelize).up();
+    const pending = await createMigrator(sequelize).pending();
+    if (pending.length) throw new Error(`still pending: ${pending.map((m) => m.name).join(', ')}`);
+    console.log(`[partwise] database ${file}: ${applied.length} migration(s) applied, schema up to date.`);
+  } catch (e) {
+    console.error(`[partwise] Refusing to start: the database at ${file} could not be migrated (${(e as Error).message}).`);
+    console.error('[partwise] Fix the cause, or run `npm run db:status` to see which migration is stuck.');
+    process.exit(1);
+  } finally {
+    await sequelize.close();
+  }
+
+  if (process.env.PARTWISE_SKIP_SEED !== '1') await seedDemo();
+
+  const services = await startServices({ dataDir, appUrl });
+  const env: NodeJS.ProcessEnv = { ...process.env, NEXT_TELEMETRY_DISABLED: '1', NEXTAUTH_URL: appUrl, PORT: port };
+  for (const s of services) Object.assign(env, s.env);
+  if (!env.NEXTAUTH_SECRET) {
+    // A local demo run: sessions are signed with a secret derived from the database path.
+    env.PARTWISE_LOCAL = '1';
+    console.warn('[partwise] NEXTAUTH_SECRET is not set; using a local-only secret. Set it for any real deployment.');
+  }
+
+  if (!dev && (buildIsStale() || process.env.PARTWISE_FORCE_BUILD === '1')) {
+    console.log('[partwise] building the app (sources changed since the last build)…');
+    await run('npm', ['run', 'build'], { env });
+  }
+
+  const next = spawn('npx', ['--no-install', 'next', dev ? 'dev' : 'start', '-p', port, '-H', process.env.HOST ?? '127.0.0.1'], { stdio: 'inherit', env });
+  console.log(`[partwise] serving at ${appUrl}`);
+  const shutdown = async () => {
+    next.kill('SIGTERM');
+    await stopServices(services);
+    process.exit(0);
+  };
+  process.on('SIGINT', shutdown);
+  process.on('SIGTERM', shutdown);
+  next.on('exit', async (code) => {
+    await stopServices(services);
+    process.exit(code ?? 0);
+  });
+}
+
+main().catch((e) => {
+  console.error('[partwise] start failed:', e);
+  process.exit(1);
+});

@@ -1,0 +1,90 @@
+import fs from 'node:fs';
+import path from 'node:path';
+import { spawn } from 'node:child_process';
+import { buildIsStale } from './lib/build-state';
+import { ensureChromium } from './lib/ensure-chromium';
+import { run, waitForHttp } from './lib/run';
+import { startServices, stopServices, type RunningService } from './services';
+
+/**
+ * `npm test`: every level in one run. Builds the app when sources changed, starts a
+ * test stack (fresh migrated and seeded SQLite file, the local fakes, the built app
+ * on a spare port), runs vitest's unit, integration and browser projects against it,
+ * and stops everything. Extra arguments go to vitest (e.g. `npm test -- tests/unit`).
+ */
+const PORT = process.env.PARTWISE_TEST_PORT ?? '3210';
+const ROOT = process.cwd();
+const STACK_DIR = path.resolve('.tmp/test-stack');
+
+async function main() {
+  ensureChromium();
+  if (buildIsStale()) {
+    console.log('[test] building the app…');
+    await run('npm', ['run', 'build']);
+  }
+
+  fs.rmSync(STACK_DIR, { recursive: true, force: true });
+  fs.mkdirSync(STACK_DIR, { recursive: true });
+  const appUrl = `http://localhost:${PORT}`;
+  const env: NodeJS.ProcessEnv = {
+    ...process.env,
+    NODE_ENV: 'production',
+    NEXT_TELEMETRY_DISABLED: '1',
+    DATABASE_URL: path.join(STACK_DIR, 'partwise.sqlite'),
+    PARTWISE_DATA_DIR: STACK_DIR,
+    NEXTAUTH_URL: appUrl,
+    NEXTAUTH_SECRET: process.env.NEXTAUTH_SECRET ?? 'test-stack-secret-not-for-production',
+    PORT,
+  };
+
+  await run('npx', ['tsx', 'scripts/migrate.ts', 'up'], { env, stdio: ['ignore', 'ignore', 'inherit'] });
+  await run('npx', ['tsx', 'scripts/seed.ts'], { env });
+
+  let services: RunningService[] = [];
+  let server: ReturnType<typeof spawn> | undefined;
+  let exitCode = 1;
+  try {
+    Object.assign(process.env, env);
+    services = await startServices({ dataDir: STACK_DIR, appUrl });
+    for (const s of services) Object.assign(env, s.env);
+
+    const log = fs.openSync(path.join(STACK_DIR, 'server.log'), 'a');
+    server = spawn('npx', ['--no-install', 'next', 'start', '-p', PORT, '-H', '127.0.0.1'], { env, stdio: ['ignore', log, log], detached: true });
+    await waitForHttp(`${appUrl}/api/health`, 90_000, server);
+
+    const report = path.join(STACK_DIR, 'vitest-report.json');
+    exitCode = await new Promise<number>((resolve) => {
+      const vitest = spawn('npx', ['--no-install', 'vitest', 'run', ...process.argv.slice(2)], {
+        stdio: 'inherit',
+        env: { ...env, NODE_ENV: 'test', PARTWISE_BASE_URL: appUrl, PARTWISE_TEST_REPORT: report },
+      });
+      vitest.on('exit', (code) => resolve(code ?? 1));
+    });
+    printSummary(report);
+  } catch (e) {
+    console.error('[test] the test stack failed:', (e as Error).message);
+    const logFile = path.join(STACK_DIR, 'server.log');
+    if (fs.existsSync(logFile)) console.error(fs.readFileSync(logFile, 'utf8').slice(-4000));
+  } finally {
+    if (server?.pid) {
+      try {
+        process.kill(-server.pid, 'SIGTERM');
+      } catch {}
+    }
+    await stopServices(services);
+  }
+  process.exit(exitCode);
+}
+
+/** The plain closing line CI reads, from vitest's JSON report. */
+function printSummary(file: string) {
+  if (!fs.existsSync(file)) return;
+  const r = JSON.parse(fs.readFileSync(file, 'utf8')) as { numPassedTests: number; numFailedTests: number; numPendingTests: number; numTodoTests: number };
+  console.log(`\ntests: ${r.numPassedTests} passed, ${r.numFailedTests} failed, ${r.numPendingTests + r.numTodoTests} skipped`);
+}
+
+process.chdir(ROOT);
+main().catch((e) => {
+  console.error(e);
+  process.exit(1);
+});
