@@ -9,10 +9,20 @@ import { demoRidesCsv } from '@/lib/demo/cycling';
 export async function seedDemo(): Promise<void> {
   const m = await import('@/models');
   const existing = await m.User.findOne({ where: { email: DEMO_USERS.owner.email } });
-  if (existing) {
-    console.log('[partwise] demo data already present.');
-    return;
-  }
+  if (!existing) await seedAccountsAndData(m);
+  else console.log('[partwise] demo accounts already present.');
+
+  // Later steps are idempotent on their own, so a partly seeded database completes.
+  const owner = (await m.User.findOne({ where: { email: DEMO_USERS.owner.email } }))!;
+  const workspace = (await m.Workspace.findOne({ where: { slug: DEMO_WORKSPACE.slug } }))!;
+  const dataset = (await m.Dataset.findOne({ where: { workspaceId: workspace.id }, order: [['id', 'ASC']] }))!;
+  const { seedDemoModel } = await import('@/lib/demo/model');
+  const { seedDemoCalculator } = await import('@/lib/demo/calculator');
+  await seedDemoModel({ workspace, owner, dataset });
+  await seedDemoCalculator({ workspace, owner });
+}
+
+async function seedAccountsAndData(m: typeof import('@/models')) {
   await m.sequelize.transaction(async (transaction) => {
     const now = new Date();
     const hash = (p: string) => bcrypt.hash(p, 10);

@@ -14,7 +14,7 @@ import { startServices, stopServices, type RunningService } from './services';
  */
 const PORT = process.env.PARTWISE_TEST_PORT ?? '3210';
 const ROOT = process.cwd();
-const STACK_DIR = path.resolve('.tmp/test-stack');
+const STACK_DIR = path.resolve(`.tmp/test-stack-${PORT}`);
 
 async function main() {
   ensureChromium();

@@ -15,7 +15,7 @@ function newestMtime(entry: string): number {
 
 /** True when .next is missing or older than any source that goes into it. */
 export function buildIsStale(root = process.cwd()): boolean {
-  const marker = path.join(root, '.next', 'BUILD_ID');
+  const marker = path.join(root, process.env.NEXT_DIST_DIR || '.next', 'BUILD_ID');
   if (!fs.existsSync(marker)) return true;
   const built = fs.statSync(marker).mtimeMs;
   const sources = [...SOURCE_DIRS, ...SOURCE_FILES].map((p) => path.join(root, p));

@@ -2,7 +2,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { Membership, User, Workspace } from '@/models';
 import { readActor, requireStaff, requireWorkspace } from '@/lib/auth/guard';
 import { AppError } from '@/lib/errors';
-import { makeRequest } from '../helpers/auth';
+import { makeRequest } from '../../helpers/auth';
 
 let owner: User, member: User, staff: User, outsider: User;
 let ws: Workspace, other: Workspace;
