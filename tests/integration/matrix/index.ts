@@ -1,0 +1,8 @@
+import type { Exemption, MatrixRow } from './types';
+import * as foundation from './foundation';
+
+/** Every area's rows. A new area adds `import * as area from './area'` and lists it here. */
+const areas: { rows: MatrixRow[]; exemptions?: Exemption[] }[] = [foundation];
+
+export const allRows: MatrixRow[] = areas.flatMap((a) => a.rows);
+export const allExemptions: Exemption[] = areas.flatMap((a) => a.exemptions ?? []);
