@@ -123,6 +123,10 @@ export function passFull(
  * densities are the small product Φ·Aᵀ and the statistics the product Wᵀ·Φ (W the B×K
  * responsibilities), both tiled so that every value loaded feeds several sums.
  * Scratch layout: Φ (B·t, row-major) | W (B·K, row-major).
+ *
+ * Scoring use: with `stats` null the statistics are skipped; `logDensity[r − start]` and
+ * `resp[(r − start)·K + c]` receive each row's log density and responsibilities when given.
+ * Returns the sum of the rows' log densities.
  */
 export const QUAD_BLOCK = 64;
 
@@ -137,8 +141,10 @@ export function passQuadratic(
   centre: Float64Array,
   prune: number,
   scratch: Float64Array,
-  stats: Float64Array,
-): void {
+  stats: Float64Array | null,
+  logDensity: Float64Array | null = null,
+  resp: Float64Array | null = null,
+): number {
   const B = QUAD_BLOCK;
   const m = (d * (d + 1)) >> 1;
   const t = d + m;
@@ -287,13 +293,18 @@ export function passQuadratic(
         scratch[wo + c] = e;
         sum += e;
       }
-      ll += maxLp + Math.log(sum);
+      const lse = maxLp + Math.log(sum);
+      ll += lse;
       const inv = 1 / sum;
       for (let c = 0; c < k; c++) {
         const w = scratch[wo + c] * inv;
         scratch[wo + c] = w < prune ? 0 : w;
       }
+      const o = r0 + r - start;
+      if (logDensity !== null) logDensity[o] = lse;
+      if (resp !== null) for (let c = 0; c < k; c++) resp[o * k + c] = scratch[wo + c];
     }
+    if (stats === null) continue;
     // statistics: n_k = Σ_r W_rk;  [s1_k, s2_k] = Σ_r W_rk φ_r — a small Wᵀ Φ product,
     // tiled 2 components × 4 features so each loaded value feeds several sums
     for (let c = 0; c < k; c++) {
@@ -352,7 +363,8 @@ export function passQuadratic(
       }
     }
   }
-  stats[0] += ll;
+  if (stats !== null) stats[0] += ll;
+  return ll;
 }
 
 /** Feature q of φ: q < d is s1[c][q], otherwise s2[c][q − d]. */

@@ -209,6 +209,17 @@ describe('pass kernels agree', () => {
     passFull(x, 0, n, d, k, g.means, f.factors, f.logConst, f.centre, 0, new Float64Array(scratchLength(k, d)), a);
     passQuadratic(x, 0, n, d, k, f.quad, f.quadConst, f.centre, 0, new Float64Array(scratchLength(k, d)), b);
     for (let i = 0; i < a.length; i++) expect(Math.abs(a[i] - b[i])).toBeLessThan(1e-9 * Math.max(1, Math.abs(a[i])));
+    // scoring form of both kernels: per-row log densities and responsibilities
+    const { posteriorPass } = await import('../../../lib/mixture/estep');
+    const ldA = new Float64Array(n);
+    const ldB = new Float64Array(n);
+    const rA = new Float64Array(n * k);
+    const rB = new Float64Array(n * k);
+    posteriorPass(x, 0, n, d, k, false, g.means, f.factors, f.logConst, new Float64Array(scratchLength(k, d)), ldA, rA, 0);
+    const total = passQuadratic(x, 0, n, d, k, f.quad, f.quadConst, f.centre, 0, new Float64Array(scratchLength(k, d)), null, ldB, rB);
+    expect(total).toBeCloseTo(a[0], 6);
+    for (let r = 0; r < n; r++) expect(Math.abs(ldA[r] - ldB[r])).toBeLessThan(1e-10);
+    for (let i = 0; i < n * k; i++) expect(Math.abs(rA[i] - rB[i])).toBeLessThan(1e-10);
   });
 
   it('falls back to the triangular kernel for nearly collinear features', async () => {
