@@ -94,7 +94,7 @@ export async function createWorkerEngine(workers = 1): Promise<WorkerEngine> {
       rows = new Float64Array(new SharedArrayBuffer(n * d * 8));
       rows.set(x.subarray(0, n * d));
     }
-    const factorLength = k * (diagonal ? d : d + packedSize(d)); // room for the quadratic form
+    const factorLength = k * (diagonal ? 2 * d : d + packedSize(d)); // room for the quadratic form
     const kd = k * d;
     const paramsBuf = new SharedArrayBuffer((kd + factorLength + k + d + 2) * 8);
     const sl = statsLength(k, d, diagonal);

@@ -136,6 +136,7 @@ export function passQuadratic(
   end: number,
   d: number,
   k: number,
+  diagonal: boolean,
   coef: Float64Array,
   quadConst: Float64Array,
   centre: Float64Array,
@@ -146,20 +147,28 @@ export function passQuadratic(
   resp: Float64Array | null = null,
 ): number {
   const B = QUAD_BLOCK;
-  const m = (d * (d + 1)) >> 1;
+  const m = diagonal ? d : (d * (d + 1)) >> 1;
   const t = d + m;
   const t4 = t & ~3;
   const oW = B * t;
-  // Φ block (B·t, row-major) | W block (B·k, row-major);
+  // Φ block (B·t, row-major) | W block (B·k, row-major)
   const oS1 = 1 + k;
   const oS2 = 1 + k + k * d;
   let ll = 0;
   for (let r0 = start; r0 < end; r0 += B) {
     const b = Math.min(B, end - r0);
-    // features φ_r = [u, packed uuᵀ], u = x_r − o
+    // features φ_r = [u, packed uuᵀ] (diagonal structures: [u, u²]), u = x_r − o
     for (let r = 0; r < b; r++) {
       const xo = (r0 + r) * d;
       const fo = r * t;
+      if (diagonal) {
+        for (let i = 0; i < d; i++) {
+          const ui = x[xo + i] - centre[i];
+          scratch[fo + i] = ui;
+          scratch[fo + d + i] = ui * ui;
+        }
+        continue;
+      }
       let p = fo + d;
       for (let i = 0; i < d; i++) {
         const ui = x[xo + i] - centre[i];
@@ -376,6 +385,8 @@ function addStat(stats: Float64Array, c: number, q: number, v: number, d: number
 export const KERNEL_TRIANGULAR = 0;
 export const KERNEL_QUADRATIC = 1;
 export const KERNEL_DIAGONAL = 2;
+/** quadratic-feature kernel with φ = [u, u²] for diagonal and spherical structures */
+export const KERNEL_QUADRATIC_DIAGONAL = 3;
 
 /**
  * Dispatch to one kernel. `factors`/`consts` are the kernel's own arrays: triangular
@@ -396,7 +407,9 @@ export function runKernel(
   scratch: Float64Array,
   stats: Float64Array,
 ): void {
-  if (kernel === KERNEL_QUADRATIC) passQuadratic(x, start, end, d, k, factors, consts, centre, prune, scratch, stats);
+  if (kernel === KERNEL_QUADRATIC || kernel === KERNEL_QUADRATIC_DIAGONAL) {
+    passQuadratic(x, start, end, d, k, kernel === KERNEL_QUADRATIC_DIAGONAL, factors, consts, centre, prune, scratch, stats);
+  }
   else if (kernel === KERNEL_DIAGONAL) passDiag(x, start, end, d, k, means, factors, consts, centre, prune, scratch, stats);
   else passFull(x, start, end, d, k, means, factors, consts, centre, prune, scratch, stats);
 }

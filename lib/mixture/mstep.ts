@@ -4,7 +4,7 @@
  * Both are O(K·d³) — negligible next to the O(N·K·d²) pass.
  */
 import { MixtureError } from './errors';
-import { KERNEL_DIAGONAL, KERNEL_QUADRATIC, KERNEL_TRIANGULAR, LOG_2PI } from './estep';
+import { KERNEL_DIAGONAL, KERNEL_QUADRATIC, KERNEL_QUADRATIC_DIAGONAL, KERNEL_TRIANGULAR, LOG_2PI } from './estep';
 import { choleskyInto, halfLogDet, invertLowerPacked, packedSize } from './linalg';
 import { type Gaussians, isDiagonalStructure } from './types';
 
@@ -36,7 +36,7 @@ export function allocFactors(k: number, d: number, diagonal: boolean, prune = 0)
     factors: new Float64Array(k * (diagonal ? d : packedSize(d))),
     logConst: new Float64Array(k),
     kernel: diagonal ? KERNEL_DIAGONAL : KERNEL_TRIANGULAR,
-    quad: new Float64Array(diagonal ? 0 : k * (d + packedSize(d))),
+    quad: new Float64Array(k * (diagonal ? 2 * d : d + packedSize(d))),
     quadConst: new Float64Array(k),
     centre: new Float64Array(d),
     prune,
@@ -54,7 +54,9 @@ export const QUADRATIC_CONDITION_LIMIT = 1e6;
 
 /** The array pair the engine hands to runKernel for these factors. */
 export function kernelArrays(f: Factors): { factors: Float64Array; consts: Float64Array } {
-  return f.kernel === KERNEL_QUADRATIC ? { factors: f.quad, consts: f.quadConst } : { factors: f.factors, consts: f.logConst };
+  return f.kernel === KERNEL_QUADRATIC || f.kernel === KERNEL_QUADRATIC_DIAGONAL
+    ? { factors: f.quad, consts: f.quadConst }
+    : { factors: f.factors, consts: f.logConst };
 }
 
 const HINT =
@@ -99,7 +101,32 @@ export function prepareFactors(g: Gaussians, out: Factors): void {
     }
     out.logConst[c] = Math.log(w) - 0.5 * d * LOG_2PI - halfLog;
   }
-  if (!out.diagonal) out.kernel = quadraticForm(g, out) ? KERNEL_QUADRATIC : KERNEL_TRIANGULAR;
+  if (out.diagonal) {
+    diagonalQuadraticForm(g, out);
+    out.kernel = KERNEL_QUADRATIC_DIAGONAL;
+  } else {
+    out.kernel = quadraticForm(g, out) ? KERNEL_QUADRATIC : KERNEL_TRIANGULAR;
+  }
+}
+
+/**
+ * Diagonal structures: a_k = [(μ_k − o)/σ², −½/σ²], c_k = log w_k − ½d·log2π − ½log|Σ_k| − ½Σ_j (μ_kj − o_j)²/σ²_kj.
+ * (Always well conditioned in the scale-free sense: there are no correlations.)
+ */
+function diagonalQuadraticForm(g: Gaussians, out: Factors): void {
+  const { k, d } = g;
+  for (let c = 0; c < k; c++) {
+    const a = c * 2 * d;
+    let mPm = 0;
+    for (let i = 0; i < d; i++) {
+      const inv = out.factors[c * d + i] * out.factors[c * d + i];
+      const v = g.means[c * d + i] - out.centre[i];
+      out.quad[a + i] = inv * v;
+      out.quad[a + d + i] = -0.5 * inv;
+      mPm += inv * v * v;
+    }
+    out.quadConst[c] = out.logConst[c] - 0.5 * mPm;
+  }
 }
 
 /** Fill out.quad / out.quadConst from the packed inverse factors; false if ill-conditioned. */

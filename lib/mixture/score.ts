@@ -5,7 +5,7 @@
  * interpolation. Low typicality (default < 1) flags a row that fits no cluster well.
  */
 import { MixtureError } from './errors';
-import { KERNEL_QUADRATIC, passQuadratic, posteriorPass, scratchLength } from './estep';
+import { KERNEL_QUADRATIC, KERNEL_QUADRATIC_DIAGONAL, passQuadratic, posteriorPass, scratchLength } from './estep';
 import { allocFactors, type Factors, prepareFactors } from './mstep';
 import { covToScaled, logJacobian, meanToScaled, type ScalerParams } from './scaler';
 import { type Covariance, type Gaussians, isDiagonalStructure } from './types';
@@ -141,7 +141,9 @@ export function logDensities(model: ScorableModel, rows: Float64Array, n: number
   const out = new Float64Array(n);
   const scratch = new Float64Array(scratchLength(s.k, s.d));
   const f = s.factors;
-  if (f.kernel === KERNEL_QUADRATIC) passQuadratic(z, 0, n, s.d, s.k, f.quad, f.quadConst, f.centre, 0, scratch, null, out, resp);
+  if (f.kernel === KERNEL_QUADRATIC || f.kernel === KERNEL_QUADRATIC_DIAGONAL) {
+    passQuadratic(z, 0, n, s.d, s.k, f.kernel === KERNEL_QUADRATIC_DIAGONAL, f.quad, f.quadConst, f.centre, 0, scratch, null, out, resp);
+  }
   else posteriorPass(z, 0, n, s.d, s.k, s.diagonal, s.means, f.factors, f.logConst, scratch, out, resp, 0);
   for (let r = 0; r < n; r++) out[r] -= s.jacobian;
   return out;

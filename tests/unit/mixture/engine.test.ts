@@ -207,7 +207,7 @@ describe('pass kernels agree', () => {
     const a = new Float64Array(statsLength(k, d, false));
     const b = new Float64Array(statsLength(k, d, false));
     passFull(x, 0, n, d, k, g.means, f.factors, f.logConst, f.centre, 0, new Float64Array(scratchLength(k, d)), a);
-    passQuadratic(x, 0, n, d, k, f.quad, f.quadConst, f.centre, 0, new Float64Array(scratchLength(k, d)), b);
+    passQuadratic(x, 0, n, d, k, false, f.quad, f.quadConst, f.centre, 0, new Float64Array(scratchLength(k, d)), b);
     for (let i = 0; i < a.length; i++) expect(Math.abs(a[i] - b[i])).toBeLessThan(1e-9 * Math.max(1, Math.abs(a[i])));
     // scoring form of both kernels: per-row log densities and responsibilities
     const { posteriorPass } = await import('../../../lib/mixture/estep');
@@ -216,10 +216,36 @@ describe('pass kernels agree', () => {
     const rA = new Float64Array(n * k);
     const rB = new Float64Array(n * k);
     posteriorPass(x, 0, n, d, k, false, g.means, f.factors, f.logConst, new Float64Array(scratchLength(k, d)), ldA, rA, 0);
-    const total = passQuadratic(x, 0, n, d, k, f.quad, f.quadConst, f.centre, 0, new Float64Array(scratchLength(k, d)), null, ldB, rB);
+    const total = passQuadratic(x, 0, n, d, k, false, f.quad, f.quadConst, f.centre, 0, new Float64Array(scratchLength(k, d)), null, ldB, rB);
     expect(total).toBeCloseTo(a[0], 6);
     for (let r = 0; r < n; r++) expect(Math.abs(ldA[r] - ldB[r])).toBeLessThan(1e-10);
     for (let i = 0; i < n * k; i++) expect(Math.abs(rA[i] - rB[i])).toBeLessThan(1e-10);
+  });
+
+  it('diagonal quadratic-feature kernel agrees with the 1/σ kernel', async () => {
+    const { passDiag, passQuadratic, scratchLength, statsLength } = await import('../../../lib/mixture/estep');
+    const { allocFactors, prepareFactors } = await import('../../../lib/mixture/mstep');
+    const n = 400;
+    const d = 3;
+    const k = 4;
+    const { x } = synthBlobs(19, n, d, k);
+    const fit = fitMixture(x, n, d, { components: k, covariance: 'diagonal', standardize: false, maxIter: 3, seed: 2 });
+    const g = {
+      k,
+      d,
+      covariance: 'diagonal' as const,
+      weights: Float64Array.from(fit.weights),
+      means: Float64Array.from(fit.means.flat()),
+      covs: Float64Array.from(fit.covariances.flat(2)),
+    };
+    const f = allocFactors(k, d, true, 0);
+    prepareFactors(g, f);
+    expect(f.kernel).toBe(3);
+    const a = new Float64Array(statsLength(k, d, true));
+    const b = new Float64Array(statsLength(k, d, true));
+    passDiag(x, 0, n, d, k, g.means, f.factors, f.logConst, f.centre, 0, new Float64Array(scratchLength(k, d)), a);
+    passQuadratic(x, 0, n, d, k, true, f.quad, f.quadConst, f.centre, 0, new Float64Array(scratchLength(k, d)), b);
+    for (let i = 0; i < a.length; i++) expect(Math.abs(a[i] - b[i])).toBeLessThan(1e-9 * Math.max(1, Math.abs(a[i])));
   });
 
   it('falls back to the triangular kernel for nearly collinear features', async () => {
