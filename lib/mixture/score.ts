@@ -50,6 +50,11 @@ export interface Scorer {
   factors: Factors;
   means: Float64Array;
   quantiles: QuantileSummary;
+  /** single-row buffers reused by scoreRow (scaled row, scratch, log density, responsibilities) */
+  row: Float64Array;
+  rowScratch: Float64Array;
+  rowDensity: Float64Array;
+  rowResp: Float64Array;
 }
 
 const cache = new WeakMap<object, Scorer>();
@@ -88,6 +93,10 @@ export function prepareScorer(model: ScorableModel): Scorer {
     factors,
     means: g.means,
     quantiles: model.training.logDensityQuantiles,
+    row: new Float64Array(d),
+    rowScratch: new Float64Array(scratchLength(k, d)),
+    rowDensity: new Float64Array(1),
+    rowResp: new Float64Array(k),
   };
   cache.set(model, s);
   return s;
@@ -182,13 +191,19 @@ export function scoreRow(model: ScorableModel, values: number[], opts: { unusual
   values.forEach((v, j) => {
     if (typeof v !== 'number' || !Number.isFinite(v)) throw new MixtureError('BAD_INPUT', `Value ${j + 1} is not a finite number.`);
   });
-  const r = scoreRows(model, Float64Array.from(values), 1);
-  const typicality = r.typicality[0];
+  // one row: the per-row kernel on reused buffers (the blocked kernel pays off for batches)
+  for (let j = 0; j < s.d; j++) s.row[j] = s.scaler ? (values[j] - s.scaler.center[j]) / s.scaler.scale[j] : values[j];
+  const f = s.factors;
+  posteriorPass(s.row, 0, 1, s.d, s.k, s.diagonal, s.means, f.factors, f.logConst, s.rowScratch, s.rowDensity, s.rowResp, 0);
+  const logDensity = s.rowDensity[0] - s.jacobian;
+  const typicality = typicalityOf(model.training.logDensityQuantiles, logDensity);
+  let best = 0;
+  for (let c = 1; c < s.k; c++) if (s.rowResp[c] > s.rowResp[best]) best = c;
   return {
-    probabilities: Array.from(r.probabilities),
-    logDensity: r.logDensity[0],
+    probabilities: Array.from(s.rowResp),
+    logDensity,
     typicality,
-    best: r.best[0],
+    best,
     unusual: typicality < (opts.unusualBelow ?? DEFAULT_UNUSUAL_BELOW),
   };
 }

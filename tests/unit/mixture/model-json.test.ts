@@ -60,6 +60,17 @@ describe('model JSON', () => {
     expect(centre.best).toBe(1);
   });
 
+  it('one-row and batch scoring agree', () => {
+    const b = scoreRows(model, x, 50);
+    for (let r = 0; r < 50; r++) {
+      const one = scoreRow(model, [x[r * d], x[r * d + 1], x[r * d + 2]]);
+      expect(Math.abs(one.logDensity - b.logDensity[r])).toBeLessThan(1e-9);
+      expect(Math.abs(one.typicality - b.typicality[r])).toBeLessThan(1e-6);
+      expect(one.best).toBe(b.best[r]);
+      one.probabilities.forEach((p, c) => expect(Math.abs(p - b.probabilities[r * 3 + c])).toBeLessThan(1e-9));
+    }
+  });
+
   it('typicality interpolates the stored quantiles', () => {
     const q = { levels: [0, 0.5, 1], values: [-10, -4, 0] };
     expect(typicalityOf(q, -20)).toBe(0);
