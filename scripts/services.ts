@@ -1,3 +1,4 @@
+import { smtpFakeService } from '@/lib/fakes/smtp';
 /**
  * Local stand-ins for outside services (mail, payments) that `npm start` and
  * `npm test` run on loopback beside Partwise. Each entry starts one service and
@@ -16,6 +17,7 @@ export interface ServiceSpec {
 
 // Later features register their fakes here (SMTP fake, payment-service fake).
 export const SERVICES: ServiceSpec[] = [];
+SERVICES.push(smtpFakeService);
 
 export async function startServices(opts: { dataDir: string; appUrl: string }): Promise<RunningService[]> {
   const running: RunningService[] = [];

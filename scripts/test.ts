@@ -34,6 +34,8 @@ async function main() {
     PARTWISE_DATA_DIR: STACK_DIR,
     NEXTAUTH_URL: appUrl,
     NEXTAUTH_SECRET: process.env.NEXTAUTH_SECRET ?? 'test-stack-secret-not-for-production',
+    // The local mail page (/dev/mail) lists what the SMTP fake received.
+    PARTWISE_DEV_MAIL: '1',
     PORT,
   };
 
