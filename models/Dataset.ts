@@ -5,7 +5,11 @@ export interface DatasetColumn {
   name: string;
   kind: 'numeric' | 'text';
   count: number;
+  /** Rows with no usable number here (empty, a missing marker, or not a number). */
   missing: number;
+  /** Of `missing`, the cells that held text that is not a number (typos, not blanks). */
+  invalid?: number;
+  invalidExamples?: string[];
   min: number | null;
   max: number | null;
   mean: number | null;

@@ -1,0 +1,167 @@
+/**
+ * Datasets: upload (validate, check plan limits, store the bytes and the parsed table),
+ * per-feature settings, the numeric matrix a fit reads, deletion.
+ * Every function takes the workspace id and loads by id AND workspace, so an id from
+ * another workspace is simply not found.
+ */
+import { z } from 'zod';
+import { AppError } from '@/lib/errors';
+import { parseWith } from '@/lib/http/handler';
+import { Dataset, Fit, MixtureModel, sequelize } from '@/models';
+import type { DatasetColumn } from '@/models/Dataset';
+import { decodeCsvBytes, parseCsvText } from './parse';
+import { assertRowCount, assertUploadSize } from './limits';
+
+export { MIN_DATA_ROWS } from './parse';
+
+export interface UploadInput {
+  workspaceId: number;
+  userId: number;
+  bytes: Uint8Array;
+  filename: string;
+  name?: string;
+}
+
+export function datasetNameFrom(filename: string): string {
+  const base = filename.replace(/\.(csv|tsv|txt)$/i, '').replace(/[_-]+/g, ' ').trim();
+  return (base || 'Untitled table').slice(0, 200);
+}
+
+export async function createDataset(input: UploadInput): Promise<Dataset> {
+  await assertUploadSize(input.workspaceId, input.bytes.length);
+  const table = parseCsvText(decodeCsvBytes(input.bytes));
+  await assertRowCount(input.workspaceId, table.completeRows);
+  const filename = (input.filename || 'pasted.csv').slice(0, 255);
+  return Dataset.create({
+    workspaceId: input.workspaceId,
+    createdById: input.userId,
+    name: (input.name?.trim() || datasetNameFrom(filename)).slice(0, 200),
+    originalFilename: filename,
+    originalCsv: Buffer.from(input.bytes),
+    columns: table.columns,
+    cells: table.cells,
+    rowCount: table.cells.length,
+  });
+}
+
+export async function findDataset(workspaceId: number, id: number): Promise<Dataset> {
+  const dataset = await Dataset.findOne({ where: { id, workspaceId } });
+  if (!dataset) throw new AppError('not_found', 'No such dataset in this workspace.');
+  return dataset;
+}
+
+/** List view: everything but the bytes and cells. */
+export async function listDatasets(workspaceId: number) {
+  const rows = await Dataset.findAll({
+    where: { workspaceId },
+    attributes: ['id', 'name', 'originalFilename', 'rowCount', 'columns', 'createdAt', 'updatedAt'],
+    order: [['createdAt', 'DESC'], ['id', 'DESC']],
+  });
+  return rows.map((d) => ({
+    id: d.id,
+    name: d.name,
+    originalFilename: d.originalFilename,
+    rowCount: d.rowCount,
+    numericColumns: d.columns.filter((c) => c.kind === 'numeric').length,
+    columns: d.columns.length,
+    createdAt: d.createdAt,
+  }));
+}
+
+export function datasetSummary(d: Dataset, previewRows = 20) {
+  return {
+    id: d.id,
+    name: d.name,
+    originalFilename: d.originalFilename,
+    rowCount: d.rowCount,
+    bytes: d.originalCsv?.length ?? null,
+    columns: d.columns,
+    preview: d.cells.slice(0, previewRows),
+    createdAt: d.createdAt,
+    updatedAt: d.updatedAt,
+  };
+}
+
+const featureSetting = z
+  .object({
+    name: z.string().min(1),
+    displayName: z.string().trim().min(1, 'Give the feature a display name.').max(80),
+    unit: z.string().trim().max(24),
+    inputMin: z.number().finite(),
+    inputMax: z.number().finite(),
+  })
+  .refine((f) => f.inputMin < f.inputMax, { message: 'The lowest accepted value must be below the highest.', path: ['inputMax'] });
+
+export const datasetUpdateSchema = z.object({
+  name: z.string().trim().min(1, 'Give the dataset a name.').max(200).optional(),
+  features: z.array(featureSetting).max(200).optional(),
+});
+export type DatasetUpdate = z.infer<typeof datasetUpdateSchema>;
+
+export async function updateDataset(workspaceId: number, id: number, input: DatasetUpdate): Promise<Dataset> {
+  const dataset = await findDataset(workspaceId, id);
+  const update = parseWith(datasetUpdateSchema, input, 'dataset settings');
+  if (update.features) {
+    const columns: DatasetColumn[] = dataset.columns.map((c) => ({ ...c }));
+    update.features.forEach((f, i) => {
+      const col = columns.find((c) => c.name === f.name);
+      if (!col) throw new AppError('invalid_input', `There is no column "${f.name}" in this dataset.`, { issues: [{ field: `features.${i}.name`, message: 'unknown column' }] });
+      if (col.kind !== 'numeric') throw new AppError('invalid_input', `Column "${f.name}" holds text, not numbers, so it cannot be a feature.`, { issues: [{ field: `features.${i}.name`, message: 'not numeric' }] });
+      col.displayName = f.displayName;
+      col.unit = f.unit;
+      col.inputMin = f.inputMin;
+      col.inputMax = f.inputMax;
+    });
+    dataset.columns = columns;
+    dataset.changed('columns', true);
+  }
+  if (update.name) dataset.name = update.name;
+  await dataset.save();
+  return dataset;
+}
+
+/** Delete a dataset and its fits; named models keep their own copy of the parameters. */
+export async function deleteDataset(workspaceId: number, id: number): Promise<void> {
+  const dataset = await findDataset(workspaceId, id);
+  const running = await Fit.count({ where: { datasetId: dataset.id, status: ['queued', 'running'] } });
+  if (running) throw new AppError('conflict', 'A fit of this dataset is still running; cancel it first, then delete the dataset.');
+  await sequelize.transaction(async (transaction) => {
+    await MixtureModel.update({ datasetId: null, fitId: null }, { where: { datasetId: dataset.id }, transaction });
+    const fitIds = (await Fit.findAll({ where: { datasetId: dataset.id }, attributes: ['id'], transaction })).map((f) => f.id);
+    if (fitIds.length) await MixtureModel.update({ fitId: null }, { where: { fitId: fitIds }, transaction });
+    await Fit.destroy({ where: { datasetId: dataset.id }, transaction });
+    await dataset.destroy({ transaction });
+  });
+}
+
+export interface FeatureMatrix {
+  features: DatasetColumn[];
+  rows: Float64Array;
+  n: number;
+  d: number;
+  /** Rows left out because a chosen column had no number. */
+  dropped: number;
+  /** For each kept row, its index in the dataset (for joining scores back). */
+  rowIndex: Int32Array;
+}
+
+/** The chosen numeric columns as an n·d matrix, dropping rows with any missing value. */
+export function featureMatrix(dataset: Pick<Dataset, 'columns' | 'cells'>, featureNames: string[]): FeatureMatrix {
+  if (featureNames.length === 0) throw new AppError('invalid_input', 'Choose at least one feature.', { issues: [{ field: 'features', message: 'choose at least one' }] });
+  const idx = featureNames.map((name, i) => {
+    const j = dataset.columns.findIndex((c) => c.name === name);
+    if (j < 0) throw new AppError('invalid_input', `There is no column "${name}" in this dataset.`, { issues: [{ field: `features.${i}`, message: 'unknown column' }] });
+    if (dataset.columns[j].kind !== 'numeric') throw new AppError('invalid_input', `Column "${name}" holds text, not numbers.`, { issues: [{ field: `features.${i}`, message: 'not numeric' }] });
+    return j;
+  });
+  const d = idx.length;
+  const kept: number[] = [];
+  dataset.cells.forEach((row, r) => {
+    if (idx.every((j) => typeof row[j] === 'number' && Number.isFinite(row[j] as number))) kept.push(r);
+  });
+  const rows = new Float64Array(kept.length * d);
+  kept.forEach((r, i) => {
+    for (let k = 0; k < d; k++) rows[i * d + k] = dataset.cells[r][idx[k]] as number;
+  });
+  return { features: idx.map((j) => dataset.columns[j]), rows, n: kept.length, d, dropped: dataset.cells.length - kept.length, rowIndex: Int32Array.from(kept) };
+}
