@@ -2,9 +2,10 @@
  * The hot loops: E-step fused with the M-step's sufficient statistics.
  *
  * One pass over rows [start, end) computes, for each row, the log of
- * w_k·N(x | μ_k, Σ_k) through the inverse Cholesky factor of Σ_k (triangular form,
- * δ = x − μ_k), the log-sum-exp over components (added to the log-likelihood) and the
- * responsibilities r_k, then accumulates, per component,
+ * w_k·N(x | μ_k, Σ_k) — by default in quadratic-feature form (passQuadratic), or through
+ * the inverse Cholesky factor of Σ_k (passFull, triangular form, δ = x − μ_k) when the
+ * covariances are ill-conditioned — the log-sum-exp over components (added to the
+ * log-likelihood) and the responsibilities r_k, then accumulates, per component,
  *   n_k = Σ r,   s1_k = Σ r·u,   s2_k = Σ r·uuᵀ   with u = x − o,
  * where o is one shared centre per pass (the weighted mean of the current means).
  * The products uuᵀ are formed once per row and shared by all components, which is
@@ -108,12 +109,17 @@ export function passFull(
   stats[0] += ll;
 }
 
+/** Rows per block in passQuadratic. */
+export const QUAD_BLOCK = 64;
+
 /**
- * Full (or tied) structure pass in quadratic-feature form, the fast path. With u = x − o
+ * Quadratic-feature pass, the fast path for every structure. With u = x − o
  * and φ = [u, packed uuᵀ] (shared by all components, and needed for the statistics
  * anyway), log w_k·N(x | k) = c_k + a_k·φ, a single dot product of length d + d(d+1)/2:
  *   a_k = [P_k(μ_k − o), −½·P_k packed with doubled off-diagonals],  P_k = Σ_k⁻¹,
  *   c_k = log w_k − ½d·log2π − ½log|Σ_k| − ½(μ_k − o)ᵀP_k(μ_k − o).
+ * For diagonal and spherical structures (`diagonal` true) φ = [u, u²] and the statistics
+ * are the diagonal ones.
  * It cancels more than the triangular form, so prepareFactors only selects it when the
  * precision matrices are well conditioned (see mstep.ts); otherwise passFull runs.
  * Components more than 40 nats below the row's best are not exponentiated
@@ -128,8 +134,6 @@ export function passFull(
  * `resp[(r − start)·K + c]` receive each row's log density and responsibilities when given.
  * Returns the sum of the rows' log densities.
  */
-export const QUAD_BLOCK = 64;
-
 export function passQuadratic(
   x: Float64Array,
   start: number,
