@@ -159,6 +159,21 @@ describe('model choice', () => {
     expect(freeParameters(3, 4, 'spherical')).toBe(2 + 12 + 3);
   });
 
+  it('keeps failed candidates, with their reason, after the ranked ones', () => {
+    // three distinct points, each twice: with no regularisation only K=1 has a proper covariance
+    const x = Float64Array.from([0, 0, 1, 0, 0, 1, 0, 0, 1, 0, 0, 1]);
+    const sel = selectMixture(x, 6, 2, { components: [1, 2, 3], covariances: ['full'], regCovar: 0, standardize: false, seed: 1, init: 'points' });
+    expect(sel.best.components).toBe(1);
+    expect(sel.candidates.map((c) => c.rank)).toEqual([1, null, null]);
+    expect(sel.candidates[1].error).toMatch(/not positive definite; try fewer components, a larger regularisation/);
+    expect(codeOf(() => fitMixture(x, 6, 2, { components: 3, covariance: 'full', regCovar: 0, standardize: false, seed: 1, init: 'points' }))).toMatch(
+      /^NOT_POSITIVE_DEFINITE/,
+    );
+    // the documented remedy works
+    const ok = selectMixture(x, 6, 2, { components: [1, 2, 3], covariances: ['full'], regCovar: 0.01, standardize: false, seed: 1, init: 'points' });
+    expect(ok.candidates.every((c) => c.error === null)).toBe(true);
+  });
+
   it('ranks candidates by BIC and finds the generating K', () => {
     const n = 1200;
     const { x } = synthBlobs(33, n, 2, 3, 10);
