@@ -55,6 +55,13 @@ export async function verifyBackup(file: string): Promise<{ migrations: number }
   }
 }
 
+interface SqliteBackup {
+  step(pages: number, cb: (e: Error | null) => void): void;
+  finish(cb: () => void): void;
+  completed: boolean;
+  failed: boolean;
+}
+
 export async function restoreDatabase(sourcePath: string, livePath: string): Promise<void> {
   await verifyBackup(sourcePath);
   fs.mkdirSync(path.dirname(livePath), { recursive: true });
@@ -62,7 +69,8 @@ export async function restoreDatabase(sourcePath: string, livePath: string): Pro
   try {
     await new Promise<void>((resolve, reject) => {
       // filenameIsDest = false: copy FROM the backup file INTO the live database.
-      const backup = live.backup(sourcePath, 'main', 'main', false, (e: Error | null) => {
+      // The typings omit Database#backup; its shape is documented in node-sqlite3's lib/sqlite3.js.
+      const backup: SqliteBackup = (live as unknown as { backup: (...a: unknown[]) => SqliteBackup }).backup(sourcePath, 'main', 'main', false, (e: Error | null) => {
         if (e) return reject(e);
         const step = () =>
           backup.step(-1, (err: Error | null) => {
