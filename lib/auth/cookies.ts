@@ -26,3 +26,8 @@ export function useSecureCookies(): boolean {
 export function sessionCookieName(): string {
   return useSecureCookies() ? '__Secure-next-auth.session-token' : 'next-auth.session-token';
 }
+
+/** Set-Cookie value that makes `workspaceId` the current workspace (httpOnly, a year). */
+export function workspaceCookieHeader(workspaceId: number): string {
+  return `${WORKSPACE_COOKIE}=${workspaceId}; Path=/; HttpOnly; SameSite=Lax; Max-Age=${365 * 24 * 3600}${useSecureCookies() ? '; Secure' : ''}`;
+}

@@ -1,5 +1,6 @@
 import { getToken } from 'next-auth/jwt';
 import { AppError } from '@/lib/errors';
+import { ensureMailRetryTimer } from '@/lib/mail';
 import { Membership, User, Workspace, type WorkspaceRole } from '@/models';
 import { parseCookies, sessionCookieName, WORKSPACE_COOKIE } from './cookies';
 import { authSecret } from './secret';
@@ -24,6 +25,8 @@ const RANK: Record<WorkspaceRole, number> = { member: 1, owner: 2 };
 
 /** The signed-in user behind a request, or null for a visitor. */
 export async function readActor(request: Request): Promise<Actor | null> {
+  // The server's mail retry timer starts with the first signed-in request.
+  ensureMailRetryTimer();
   const cookies = parseCookies(request.headers.get('cookie'));
   const token = await getToken({
     req: { headers: Object.fromEntries(request.headers), cookies } as never,

@@ -1,17 +1,15 @@
-import bcrypt from 'bcryptjs';
 import type { NextAuthOptions } from 'next-auth';
 import CredentialsProvider from 'next-auth/providers/credentials';
-import { z } from 'zod';
-import { User } from '@/models';
+import { authorizeCredentials } from './credentials';
 import { authSecret } from './secret';
 import { useSecureCookies } from './cookies';
 
-const credentials = z.object({ email: z.string().trim().toLowerCase().email(), password: z.string().min(1).max(200) });
-
 /**
- * next-auth with e-mail and password. Sessions are signed JWT cookies carrying only
- * the user id; roles are read from the database on every request (see guard.ts) so
- * a role change or removal takes effect at once.
+ * next-auth with e-mail and password. Sessions are signed JWT cookies (httpOnly,
+ * SameSite=Lax, Secure when the app is served over https) carrying only the user
+ * id; the current workspace lives in WORKSPACE_COOKIE and the role in it is read
+ * from the database on every request (see guard.ts), so a role change or removal
+ * takes effect at once.
  */
 export const authOptions: NextAuthOptions = {
   secret: authSecret(),
@@ -22,16 +20,8 @@ export const authOptions: NextAuthOptions = {
     CredentialsProvider({
       name: 'E-mail and password',
       credentials: { email: { label: 'E-mail', type: 'email' }, password: { label: 'Password', type: 'password' } },
-      async authorize(raw) {
-        const parsed = credentials.safeParse(raw);
-        if (!parsed.success) return null;
-        const user = await User.findOne({ where: { email: parsed.data.email } });
-        // Compare even when the user is unknown, so timing does not reveal accounts.
-        const ok = await bcrypt.compare(parsed.data.password, user?.passwordHash ?? '$2b$10$invalidinvalidinvalidinvalidinvalidinvalidinvalidinva');
-        if (!user || !ok) return null;
-        if (!user.emailVerifiedAt) throw new Error('unverified');
-        return { id: String(user.id), email: user.email, name: user.name };
-      },
+      // Throws 'unverified' / 'rate_limited', which the sign-in form explains.
+      authorize: (raw, req) => authorizeCredentials(raw, req?.headers),
     }),
   ],
   callbacks: {

@@ -45,6 +45,7 @@ function smtpTransport(): Transporter {
 
 /** Queue a mail and try to deliver it now; resolves once it is safely in the outbox. */
 export async function enqueueMail(mail: OutgoingMail): Promise<MailMessage> {
+  ensureMailRetryTimer();
   const row = await MailMessage.create({ to: mail.to, subject: mail.subject, text: mail.text, html: mail.html ?? null, kind: mail.kind });
   // Delivery is best effort here; the outbox keeps it for the next attempt.
   void deliverOne(row).catch(() => undefined);
@@ -76,4 +77,22 @@ export async function deliverPendingMail(limit = 50): Promise<{ sent: number; pe
   for (const row of rows) if (await deliverOne(row)) sent++;
   const pending = await MailMessage.count({ where: { status: 'pending' } });
   return { sent, pending };
+}
+
+const RETRY_INTERVAL_MS = Number(process.env.MAIL_RETRY_INTERVAL_MS ?? 30_000);
+
+/**
+ * Inside the Next server, retry pending mail every RETRY_INTERVAL_MS. Started by the
+ * first request that reads a session (lib/auth/guard.ts) or queues mail; one timer per
+ * process. Several processes may each run one: the claim in deliverOne keeps every
+ * message sent once.
+ */
+export function ensureMailRetryTimer(): void {
+  if (process.env.NEXT_RUNTIME !== 'nodejs' || process.env.NEXT_PHASE === 'phase-production-build') return;
+  const g = globalThis as { __partwiseMailRetry?: ReturnType<typeof setInterval> };
+  if (g.__partwiseMailRetry) return;
+  g.__partwiseMailRetry = setInterval(() => {
+    deliverPendingMail().catch((e) => console.error('[partwise] mail retry failed:', (e as Error).message));
+  }, RETRY_INTERVAL_MS);
+  g.__partwiseMailRetry.unref?.();
 }

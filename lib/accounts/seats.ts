@@ -1,0 +1,25 @@
+import { Op, type Transaction } from 'sequelize';
+import { AppError } from '@/lib/errors';
+import { getPlan, type Plan } from '@/lib/plans';
+import { Invitation, Membership, Subscription } from '@/models';
+
+export async function workspacePlan(workspaceId: number, transaction?: Transaction): Promise<Plan> {
+  const sub = await Subscription.findOne({ where: { workspaceId }, transaction });
+  return getPlan(sub?.plan);
+}
+
+/** People in the workspace plus invitations still open (they hold a seat until used or expired). */
+export async function seatsTaken(workspaceId: number, opts: { exceptInvitationId?: number; includeInvitations?: boolean; transaction?: Transaction } = {}): Promise<number> {
+  const members = await Membership.count({ where: { workspaceId }, transaction: opts.transaction });
+  if (opts.includeInvitations === false) return members;
+  const open = await Invitation.count({
+    where: { workspaceId, acceptedAt: null, expiresAt: { [Op.gt]: new Date() }, ...(opts.exceptInvitationId ? { id: { [Op.ne]: opts.exceptInvitationId } } : {}) },
+    transaction: opts.transaction,
+  });
+  return members + open;
+}
+
+export function seatLimitError(plan: Plan): AppError {
+  const n = plan.limits.seats;
+  return new AppError('plan_limit', `The ${plan.name} plan includes ${n} seat${n === 1 ? '' : 's'} (owners included), and all are taken or held by open invitations. Move to a larger plan, or remove a member or invitation first.`);
+}

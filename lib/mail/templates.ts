@@ -1,0 +1,62 @@
+import type { OutgoingMail } from './index';
+
+/**
+ * The account mails, in Partwise's own words. Each returns a ready OutgoingMail; the
+ * text part carries the link on its own line so every mail client shows it.
+ */
+export function appLink(pathname: string, query: Record<string, string> = {}): string {
+  const base = (process.env.NEXTAUTH_URL ?? 'http://localhost:3000').replace(/\/+$/, '');
+  const url = new URL(pathname, `${base}/`);
+  for (const [k, v] of Object.entries(query)) url.searchParams.set(k, v);
+  return url.toString();
+}
+
+function escapeHtml(s: string): string {
+  return s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
+}
+
+function layout(heading: string, paragraphs: string[], link: { href: string; label: string }, footer: string): string {
+  const body = paragraphs.map((p) => `<p style="margin:0 0 14px">${escapeHtml(p)}</p>`).join('');
+  return `<!doctype html><html><body style="margin:0;background:#faf7f2;font-family:system-ui,sans-serif;color:#1d2330">
+<div style="max-width:520px;margin:0 auto;padding:28px 20px">
+<p style="font-weight:700;font-size:18px;margin:0 0 18px">Partwise</p>
+<div style="background:#fff;border-radius:14px;padding:24px">
+<h1 style="font-size:20px;margin:0 0 14px">${escapeHtml(heading)}</h1>${body}
+<p style="margin:20px 0"><a href="${escapeHtml(link.href)}" style="background:#2f6f5e;color:#fff;padding:10px 18px;border-radius:999px;text-decoration:none;font-weight:700">${escapeHtml(link.label)}</a></p>
+<p style="margin:0;font-size:13px;color:#4a5366">Or paste this address into your browser: ${escapeHtml(link.href)}</p>
+</div><p style="font-size:12px;color:#8a91a0;margin:16px 4px">${escapeHtml(footer)}</p></div></body></html>`;
+}
+
+export function verificationMail(to: { email: string; name: string }, link: string): OutgoingMail {
+  const hello = to.name ? `Hello ${to.name},` : 'Hello,';
+  return {
+    to: to.email,
+    kind: 'verify-email',
+    subject: 'Confirm your e-mail for Partwise',
+    text: `${hello}\n\nPlease confirm that this address is yours, so you can sign in to Partwise:\n\n${link}\n\nThe link works for 48 hours. If you did not create a Partwise account, ignore this mail and nothing happens.\n`,
+    html: layout('Confirm your e-mail', [hello, 'Please confirm that this address is yours, so you can sign in to Partwise. The link works for 48 hours.'], { href: link, label: 'Confirm my e-mail' }, 'If you did not create a Partwise account, ignore this mail and nothing happens.'),
+  };
+}
+
+export function passwordResetMail(to: { email: string; name: string }, link: string): OutgoingMail {
+  const hello = to.name ? `Hello ${to.name},` : 'Hello,';
+  return {
+    to: to.email,
+    kind: 'reset-password',
+    subject: 'Choose a new Partwise password',
+    text: `${hello}\n\nSomeone (hopefully you) asked to choose a new password for this Partwise account:\n\n${link}\n\nThe link works for one hour and only once. If you did not ask, ignore this mail; your password stays as it is.\n`,
+    html: layout('Choose a new password', [hello, 'Someone (hopefully you) asked to choose a new password for this Partwise account. The link works for one hour and only once.'], { href: link, label: 'Choose a new password' }, 'If you did not ask, ignore this mail; your password stays as it is.'),
+  };
+}
+
+export function invitationMail(opts: { email: string; workspaceName: string; inviterName: string; role: string; link: string; expiresAt: Date }): OutgoingMail {
+  const who = opts.inviterName || 'A colleague';
+  const until = opts.expiresAt.toISOString().slice(0, 10);
+  return {
+    to: opts.email,
+    kind: 'invitation',
+    subject: `${who} invited you to ${opts.workspaceName} on Partwise`,
+    text: `Hello,\n\n${who} invited you to join the workspace "${opts.workspaceName}" on Partwise as ${opts.role === 'owner' ? 'an owner' : 'a member'}.\n\nJoin here:\n\n${opts.link}\n\nThe invitation is valid until ${until}. If you were not expecting it, ignore this mail.\n`,
+    html: layout(`Join ${opts.workspaceName}`, [`${who} invited you to join the workspace “${opts.workspaceName}” on Partwise as ${opts.role === 'owner' ? 'an owner' : 'a member'}.`, `The invitation is valid until ${until}.`], { href: opts.link, label: 'Accept the invitation' }, 'If you were not expecting this invitation, ignore this mail.'),
+  };
+}
