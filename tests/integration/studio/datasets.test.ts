@@ -110,10 +110,10 @@ describe('dataset upload', () => {
       const big = rowsOf(2100);
       const rows = await upload(csvForm(big, 'big.csv'));
       expect(rows.status).toBe(402);
-      expect(rows.json.error.message).toMatch(/2,100 complete rows; the Sketch plan allows 2,000/);
+      expect(rows.json.error.message).toMatch(/2,100 rows; the Sketch plan accepts up to 2,000 rows/);
       const huge = 'a,b\n' + '1,2\n'.repeat(600_000);
       const size = await upload(csvForm(huge, 'huge.csv'));
-      expect(size.status).toBe(413);
+      expect(size.status).toBe(402);
       expect(size.json.error.message).toMatch(/Sketch plan accepts uploads up to 2 MB/);
       expect(await Dataset.count()).toBe(before);
     } finally {

@@ -1,0 +1,16 @@
+/**
+ * Next.js calls register() once when a server process starts. Fit jobs that a previous
+ * process left running can never finish, so they are failed with a reason here, and
+ * queued ones are picked up.
+ */
+export async function register() {
+  if (process.env.NEXT_RUNTIME === 'nodejs') {
+    const { recoverInterruptedFits } = await import('@/lib/fitting/jobs');
+    try {
+      await recoverInterruptedFits();
+    } catch (e) {
+      // A database that is not migrated yet must not stop the server from answering /api/health.
+      console.error('[partwise] could not check for interrupted fit jobs:', (e as Error).message);
+    }
+  }
+}

@@ -1,0 +1,45 @@
+/**
+ * What an analyst chooses for a fit, with the defaults a careful analyst would pick:
+ * 1–8 components, full and diagonal covariances, standardised features, five restarts
+ * from k-means++ and a fixed seed so a fit can be repeated exactly.
+ */
+import { z } from 'zod';
+
+export const STRUCTURES = ['full', 'diagonal', 'spherical', 'tied'] as const;
+export const MAX_COMPONENTS = 12;
+export const MAX_RESTARTS = 20;
+
+export const FIT_DEFAULTS = {
+  minComponents: 1,
+  maxComponents: 8,
+  covariances: ['full', 'diagonal'] as ('full' | 'diagonal' | 'spherical' | 'tied')[],
+  restarts: 5,
+  seed: 1,
+  standardize: true,
+  maxIter: 300,
+  tol: 1e-4,
+  regCovar: 1e-6,
+};
+
+export const fitParamsSchema = z
+  .object({
+    datasetId: z.number().int().positive(),
+    features: z.array(z.string().min(1)).min(1, 'Choose at least one feature.').max(30, 'Choose at most 30 features.'),
+    minComponents: z.number().int().min(1).max(MAX_COMPONENTS).default(FIT_DEFAULTS.minComponents),
+    maxComponents: z.number().int().min(1).max(MAX_COMPONENTS, `At most ${MAX_COMPONENTS} components.`).default(FIT_DEFAULTS.maxComponents),
+    covariances: z.array(z.enum(STRUCTURES)).min(1, 'Choose at least one covariance structure.').default(FIT_DEFAULTS.covariances),
+    restarts: z.number().int().min(1).max(MAX_RESTARTS).default(FIT_DEFAULTS.restarts),
+    seed: z.number().int().min(0).max(2 ** 31 - 1).default(FIT_DEFAULTS.seed),
+    standardize: z.boolean().default(FIT_DEFAULTS.standardize),
+    maxIter: z.number().int().min(5).max(2000).default(FIT_DEFAULTS.maxIter),
+    tol: z.number().positive().max(0.1).default(FIT_DEFAULTS.tol),
+    regCovar: z.number().min(0).max(1).default(FIT_DEFAULTS.regCovar),
+  })
+  .refine((p) => p.minComponents <= p.maxComponents, { message: 'The smallest component count must not exceed the largest.', path: ['maxComponents'] })
+  .refine((p) => new Set(p.features).size === p.features.length, { message: 'A feature is listed twice.', path: ['features'] });
+
+export type FitParams = z.infer<typeof fitParamsSchema>;
+
+export function componentRange(p: Pick<FitParams, 'minComponents' | 'maxComponents'>): number[] {
+  return Array.from({ length: p.maxComponents - p.minComponents + 1 }, (_, i) => p.minComponents + i);
+}
