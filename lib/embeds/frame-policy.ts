@@ -1,0 +1,22 @@
+import { loadServedEmbed, TOKEN_SHAPE } from '@/lib/scoring/served';
+import { frameAncestors } from './origins';
+
+/**
+ * The Content-Security-Policy of a calculator page: who may frame it (the embed's
+ * allowed hosts and our own origin for the studio preview), plus a few directives that
+ * keep the page to itself. Unknown tokens get the strictest policy.
+ */
+const REST = "base-uri 'none'; object-src 'none'; form-action 'self'; connect-src 'self'";
+
+export function calculatorPolicy(allowedOrigins: readonly string[]): string {
+  return `${frameAncestors(allowedOrigins)}; ${REST}`;
+}
+
+/** Policy for a request path under /embed/; null when the path is not a calculator. */
+export async function framePolicyForPath(pathname: string): Promise<string | null> {
+  const match = /^\/embed\/([^/]+)\/?$/.exec(pathname);
+  if (!match) return null;
+  const token = decodeURIComponent(match[1]);
+  const embed = TOKEN_SHAPE.test(token) ? await loadServedEmbed(token) : null;
+  return calculatorPolicy(embed?.allowedOrigins ?? []);
+}

@@ -1,0 +1,95 @@
+import { createHash } from 'node:crypto';
+import { MixtureError, parseModelJson, type MixtureModel as EngineModel } from '@/lib/mixture';
+import { AppError, type FieldIssue } from '@/lib/errors';
+import type { ClusterLabel, FieldSetting } from '@/models';
+
+/**
+ * The immutable content of a published version: the engine's model JSON plus what
+ * the analyst wrote for visitors. Stored as-is in ModelVersion.payload with a
+ * SHA-256 of its canonical JSON, so a damaged row is refused instead of served.
+ */
+export type VersionPayload = {
+  model: Record<string, unknown>;
+  clusters: ClusterLabel[];
+  fields: FieldSetting[];
+  caution: string;
+};
+
+/** JSON with object keys sorted at every level: the same payload always hashes the same. */
+export function canonicalJson(value: unknown): string {
+  return JSON.stringify(sortKeys(value));
+}
+
+function sortKeys(value: unknown): unknown {
+  if (Array.isArray(value)) return value.map(sortKeys);
+  if (value && typeof value === 'object') {
+    const out: Record<string, unknown> = {};
+    for (const key of Object.keys(value as object).sort()) {
+      const v = (value as Record<string, unknown>)[key];
+      if (v !== undefined) out[key] = sortKeys(v);
+    }
+    return out;
+  }
+  return value;
+}
+
+export function payloadChecksum(payload: VersionPayload): string {
+  return createHash('sha256').update(canonicalJson(payload)).digest('hex');
+}
+
+const HEX_COLOR = /^#[0-9a-f]{6}$/i;
+
+/**
+ * Check a model's labels and field settings against its engine model before publishing;
+ * every problem is reported with the path of the setting to fix.
+ */
+export function validatePayload(payload: VersionPayload): EngineModel {
+  let engine: EngineModel;
+  try {
+    engine = parseModelJson(payload.model);
+  } catch (e) {
+    if (e instanceof MixtureError) throw new AppError('invalid_input', `The fitted model cannot be published: ${e.message}`, { issues: [{ field: 'model', message: e.message }] });
+    throw e;
+  }
+  const issues: FieldIssue[] = [];
+  const k = engine.weights.length;
+  const features = engine.features;
+  if (!Array.isArray(payload.clusters) || payload.clusters.length !== k) {
+    issues.push({ field: 'clusters', message: `Name all ${k} clusters (found ${Array.isArray(payload.clusters) ? payload.clusters.length : 0}).` });
+  } else {
+    payload.clusters.forEach((c, i) => {
+      if (!c || typeof c.label !== 'string' || !c.label.trim()) issues.push({ field: `clusters.${i}.label`, message: `Cluster ${i + 1} needs a label.` });
+      else if (c.label.length > 80) issues.push({ field: `clusters.${i}.label`, message: `Cluster ${i + 1}'s label is longer than 80 characters.` });
+      if (typeof c?.description !== 'string' || c.description.length > 600) issues.push({ field: `clusters.${i}.description`, message: `Cluster ${i + 1}'s description must be text of at most 600 characters.` });
+      if (typeof c?.color !== 'string' || !HEX_COLOR.test(c.color)) issues.push({ field: `clusters.${i}.color`, message: `Cluster ${i + 1}'s colour must look like #3a8a74.` });
+    });
+  }
+  if (!Array.isArray(payload.fields) || payload.fields.length !== features.length) {
+    issues.push({ field: 'fields', message: `Set up a field for each of the ${features.length} features (found ${Array.isArray(payload.fields) ? payload.fields.length : 0}).` });
+  } else {
+    payload.fields.forEach((f, j) => {
+      const name = features[j].name;
+      if (f?.feature !== name) issues.push({ field: `fields.${j}.feature`, message: `Field ${j + 1} must be the feature "${name}" (the model's order).` });
+      if (typeof f?.label !== 'string' || !f.label.trim() || f.label.length > 80) issues.push({ field: `fields.${j}.label`, message: `The field for "${name}" needs a label of at most 80 characters.` });
+      if (typeof f?.unit !== 'string' || f.unit.length > 24) issues.push({ field: `fields.${j}.unit`, message: `The unit of "${name}" must be at most 24 characters.` });
+      if (typeof f?.help !== 'string' || f.help.length > 400) issues.push({ field: `fields.${j}.help`, message: `The help text of "${name}" must be at most 400 characters.` });
+      if (!Number.isFinite(f?.min) || !Number.isFinite(f?.max) || !(f.min < f.max)) issues.push({ field: `fields.${j}.min`, message: `The input range of "${name}" needs a finite minimum below its maximum.` });
+    });
+  }
+  if (typeof payload.caution !== 'string' || payload.caution.length > 2000) issues.push({ field: 'caution', message: 'The caution text must be at most 2000 characters.' });
+  if (issues.length) throw new AppError('invalid_input', `This model is not ready to publish: ${issues.map((i) => i.message).join(' ')}`, { issues });
+  return engine;
+}
+
+/**
+ * Read a stored version back. A checksum that does not match means the row was changed
+ * or damaged after publishing; it is refused (and logged) rather than scored.
+ */
+export function readStoredPayload(version: { id: number; payload: unknown; checksum: string }): VersionPayload {
+  const raw = (typeof version.payload === 'string' ? JSON.parse(version.payload) : version.payload) as VersionPayload;
+  if (payloadChecksum(raw) !== version.checksum) {
+    console.error(`[partwise] model version ${version.id} fails its checksum; refusing to serve it.`);
+    throw new AppError('unavailable', 'This calculator is temporarily unavailable.');
+  }
+  return raw;
+}

@@ -1,0 +1,101 @@
+import { z } from 'zod';
+import { scoreRow } from '@/lib/mixture';
+import { clientAddress } from '@/lib/audit';
+import { callerOrigin } from '@/lib/embeds/origins';
+import { AppError } from '@/lib/errors';
+import { readJson } from '@/lib/http/handler';
+import { recordAnswer } from '@/lib/usage';
+import { answerState } from './allowance';
+import { takeToken } from '@/lib/rate-limit';
+import { scoringLimits } from './limits';
+import { isServing, loadServedEmbed, loadServedVersion, parseValues, type ServedEmbed } from './served';
+
+/** A scored answer as the calculator (and any allowed host page) receives it. */
+export interface ScoreAnswer {
+  version: number;
+  probabilities: { index: number; label: string; color: string; probability: number }[];
+  best: { index: number; label: string; description: string; probability: number };
+  logDensity: number;
+  typicality: number;
+  unusual: boolean;
+  threshold: number;
+}
+
+/** Scoring bodies are a few numbers; anything bigger is refused before parsing. */
+export const MAX_SCORE_BODY_BYTES = 4 * 1024;
+
+const bodySchema = z.object({ values: z.unknown() }).strict();
+
+export function ownOrigins(request: Request): string[] {
+  const list = [new URL(request.url).origin];
+  const configured = process.env.NEXTAUTH_URL;
+  if (configured) {
+    try {
+      list.push(new URL(configured).origin);
+    } catch {}
+  }
+  return list;
+}
+
+/**
+ * Browser calls carry Origin (or at least Referer). The calculator page posts from our
+ * own origin; a host page calling directly must be on the embed's list. Calls without
+ * either header (servers, scripts) are allowed and rate-limited like the rest.
+ */
+export function checkCaller(request: Request, embed: ServedEmbed): string | null {
+  const origin = callerOrigin(request.headers);
+  if (origin === null) return null;
+  if (ownOrigins(request).includes(origin) || embed.allowedOrigins.includes(origin)) return origin;
+  throw new AppError('forbidden', 'This calculator does not answer requests from this website.');
+}
+
+export function corsHeaders(request: Request, embed: ServedEmbed | null): Record<string, string> {
+  const origin = callerOrigin(request.headers);
+  const headers: Record<string, string> = { Vary: 'Origin' };
+  if (embed && origin && embed.allowedOrigins.includes(origin)) headers['Access-Control-Allow-Origin'] = origin;
+  return headers;
+}
+
+function limited(retryAfterSeconds: number, what: string): AppError {
+  return new AppError('rate_limited', `Too many answers ${what}; try again in ${retryAfterSeconds} s.`, { headers: { 'Retry-After': String(retryAfterSeconds) } });
+}
+
+/** The public scoring flow: cheap refusals first, then validation, then the engine. */
+export async function scoreForToken(token: string, request: Request): Promise<{ answer: ScoreAnswer; embed: ServedEmbed }> {
+  const rules = scoringLimits();
+  const address = clientAddress(request) ?? 'unknown';
+  const byAddress = takeToken(`score:addr:${address}`, rules.perAddress);
+  if (!byAddress.ok) throw limited(byAddress.retryAfterSeconds, 'from your network');
+
+  const embed = await loadServedEmbed(token);
+  if (!embed) throw new AppError('not_found', 'There is no calculator at this address.');
+  if (!isServing(embed)) throw new AppError('gone', 'This calculator is not available.');
+  checkCaller(request, embed);
+
+  const byToken = takeToken(`score:token:${embed.id}`, rules.perToken);
+  if (!byToken.ok) throw limited(byToken.retryAfterSeconds, 'for this calculator right now');
+
+  const body = await readJson(request, bodySchema, { maxBytes: MAX_SCORE_BODY_BYTES });
+  const version = await loadServedVersion(embed.activeVersionId!);
+  const values = parseValues(version, body.values);
+
+  if ((await answerState(embed.workspaceId)) === 'paused') {
+    throw new AppError('unavailable', 'This calculator is taking a short break and will answer again soon.', { headers: { 'Retry-After': '3600' } });
+  }
+
+  const row = version.payload.fields.map((f) => values[f.feature]);
+  const score = scoreRow(version.engine, row, { unusualBelow: embed.typicalityThreshold });
+  await recordAnswer(embed);
+
+  const clusters = version.payload.clusters;
+  const answer: ScoreAnswer = {
+    version: version.number,
+    probabilities: score.probabilities.map((p, i) => ({ index: i, label: clusters[i].label, color: clusters[i].color, probability: p })),
+    best: { index: score.best, label: clusters[score.best].label, description: clusters[score.best].description, probability: score.probabilities[score.best] },
+    logDensity: score.logDensity,
+    typicality: score.typicality,
+    unusual: score.unusual,
+    threshold: embed.typicalityThreshold,
+  };
+  return { answer, embed };
+}
