@@ -1,4 +1,5 @@
 import { smtpFakeService } from '@/lib/fakes/smtp';
+import { paymentsService } from '@/lib/fakes/payments/service';
 /**
  * Local stand-ins for outside services (mail, payments) that `npm start` and
  * `npm test` run on loopback beside Partwise. Each entry starts one service and
@@ -18,6 +19,7 @@ export interface ServiceSpec {
 // Later features register their fakes here (SMTP fake, payment-service fake).
 export const SERVICES: ServiceSpec[] = [];
 SERVICES.push(smtpFakeService);
+SERVICES.push(paymentsService);
 
 export async function startServices(opts: { dataDir: string; appUrl: string }): Promise<RunningService[]> {
   const running: RunningService[] = [];

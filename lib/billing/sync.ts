@@ -1,0 +1,139 @@
+import type Stripe from 'stripe';
+import { recordAudit } from '@/lib/audit';
+import { enqueueMail } from '@/lib/mail';
+import { DEFAULT_PLAN, getPlan } from '@/lib/plans';
+import { Invoice, Subscription, Workspace } from '@/models';
+import { planForPrice } from './catalog';
+import { ownerEmails } from './limits';
+
+/**
+ * Copies the payment service's view of a subscription or invoice into our tables.
+ * Each function sets state from the object it is given (never adds to it), so
+ * applying the same object twice changes nothing the second time.
+ */
+
+/** Subscription statuses after which the workspace is back on the free plan. */
+const ENDED = new Set(['canceled', 'incomplete_expired', 'unpaid']);
+const IN_FORCE = new Set(['active', 'trialing', 'past_due']);
+
+type AnyRecord = Record<string, unknown>;
+const toDate = (s: unknown) => (typeof s === 'number' ? new Date(s * 1000) : null);
+const idOf = (v: unknown): string | null => (typeof v === 'string' ? v : v && typeof v === 'object' && 'id' in v ? String((v as { id: unknown }).id) : null);
+
+/** The local subscription row a payment-service customer belongs to. */
+export async function subscriptionRowForCustomer(customerRef: string | null, workspaceHint?: string | null): Promise<Subscription | null> {
+  if (customerRef) {
+    const row = await Subscription.findOne({ where: { customerRef } });
+    if (row) return row;
+  }
+  // A customer we have not linked yet: trust the signed metadata only for a workspace without a customer.
+  const workspaceId = Number(workspaceHint);
+  if (!Number.isInteger(workspaceId) || workspaceId <= 0 || !(await Workspace.findByPk(workspaceId))) return null;
+  const row = await Subscription.findOne({ where: { workspaceId } });
+  if (row && row.customerRef && row.customerRef !== customerRef) return null;
+  if (row) return row.update({ customerRef });
+  return Subscription.create({ workspaceId, plan: DEFAULT_PLAN, status: 'active', customerRef });
+}
+
+export interface SyncOutcome {
+  workspaceId: number;
+  from: string;
+  to: string;
+  changed: boolean;
+  ignored?: string;
+}
+
+export async function syncSubscription(sub: Stripe.Subscription, context: { actor?: { id: number; email: string } | null; source: string; request?: Request }): Promise<SyncOutcome | null> {
+  const row = await subscriptionRowForCustomer(idOf(sub.customer), sub.metadata?.workspaceId);
+  if (!row) return null;
+  const from = { plan: row.plan, status: row.status };
+  // An older subscription's news never overrides a newer one that is in force.
+  if (row.subscriptionRef && row.subscriptionRef !== sub.id && IN_FORCE.has(row.status) && !IN_FORCE.has(sub.status)) {
+    return { workspaceId: row.workspaceId, from: from.plan, to: from.plan, changed: false, ignored: 'an older subscription' };
+  }
+  const item = sub.items?.data?.[0] as (Stripe.SubscriptionItem & AnyRecord) | undefined;
+  const legacy = sub as unknown as AnyRecord;
+  const pricePlan = planForPrice(item?.price);
+  const ended = ENDED.has(sub.status);
+  const plan = ended ? DEFAULT_PLAN : pricePlan ?? row.plan;
+  await row.update({
+    plan,
+    status: ended ? 'canceled' : sub.status,
+    subscriptionRef: sub.id,
+    currentPeriodStart: toDate(item?.current_period_start ?? legacy.current_period_start),
+    currentPeriodEnd: toDate(item?.current_period_end ?? legacy.current_period_end),
+    cancelAtPeriodEnd: !ended && Boolean(sub.cancel_at_period_end),
+  });
+  const changed = from.plan !== plan || from.status !== row.status;
+  if (from.plan !== plan) {
+    await recordAudit({
+      action: 'billing.plan_changed',
+      actor: context.actor ?? null,
+      workspaceId: row.workspaceId,
+      targetType: 'subscription',
+      targetId: sub.id,
+      detail: { from: from.plan, to: plan, status: sub.status, source: context.source },
+      request: context.request,
+    });
+  }
+  return { workspaceId: row.workspaceId, from: from.plan, to: plan, changed };
+}
+
+function invoiceSubscriptionRef(inv: Stripe.Invoice): string | null {
+  const raw = inv as unknown as AnyRecord;
+  const parent = raw.parent as { subscription_details?: { subscription?: unknown } } | null | undefined;
+  return idOf(parent?.subscription_details?.subscription) ?? idOf(raw.subscription);
+}
+
+/** Upsert an invoice; a paid one gets its receipt e-mailed once. */
+export async function syncInvoice(inv: Stripe.Invoice): Promise<Invoice | null> {
+  const row = await subscriptionRowForCustomer(idOf(inv.customer), null);
+  if (!row) return null;
+  const values = {
+    workspaceId: row.workspaceId,
+    invoiceRef: inv.id!,
+    number: inv.number ?? null,
+    amountDue: inv.amount_due,
+    amountPaid: inv.amount_paid,
+    currency: inv.currency,
+    status: inv.status ?? 'draft',
+    periodStart: toDate(inv.period_start),
+    periodEnd: toDate(inv.period_end),
+    paidAt: toDate(inv.status_transitions?.paid_at),
+  };
+  const existing = await Invoice.findOne({ where: { invoiceRef: values.invoiceRef } });
+  let invoice: Invoice;
+  if (existing) invoice = await existing.update(values);
+  else {
+    try {
+      invoice = await Invoice.create(values);
+    } catch {
+      // A concurrent delivery created it first.
+      invoice = (await Invoice.findOne({ where: { invoiceRef: values.invoiceRef } }))!;
+      await invoice.update(values);
+    }
+  }
+  if (invoice.status === 'paid') await sendReceipt(invoice, invoiceSubscriptionRef(inv), (inv.lines?.data ?? []).map((l) => ({ description: l.description ?? '', amount: l.amount })));
+  return invoice;
+}
+
+const euros = (cents: number, currency = 'eur') => `${currency === 'eur' ? '€' : `${currency.toUpperCase()} `}${(cents / 100).toFixed(2)}`;
+const day = (d: Date | null) => (d ? d.toISOString().slice(0, 10) : '—');
+
+async function sendReceipt(invoice: Invoice, subscriptionRef: string | null, lines: { description: string; amount: number }[]): Promise<void> {
+  // Claim first: only one delivery of the "paid" news sends the receipt.
+  const [claimed] = await Invoice.update({ receiptSentAt: new Date() }, { where: { id: invoice.id, receiptSentAt: null } });
+  if (claimed !== 1) return;
+  const [workspace, sub, to] = await Promise.all([Workspace.findByPk(invoice.workspaceId), Subscription.findOne({ where: { workspaceId: invoice.workspaceId } }), ownerEmails(invoice.workspaceId)]);
+  const plan = getPlan(sub?.plan);
+  const text = [
+    `Thank you — we received ${euros(invoice.amountPaid, invoice.currency)} for ${workspace?.name ?? 'your workspace'}.`,
+    `Invoice ${invoice.number ?? invoice.invoiceRef}, paid ${day(invoice.paidAt)}, for ${day(invoice.periodStart)} to ${day(invoice.periodEnd)}.`,
+    lines.length ? lines.map((l) => `  ${l.description}: ${euros(l.amount, invoice.currency)}`).join('\n') : '',
+    `Plan: ${plan.name}${subscriptionRef ? ` (subscription ${subscriptionRef})` : ''}.`,
+    'Every invoice is listed in Partwise Studio → Billing.',
+  ].filter(Boolean).join('\n\n');
+  for (const address of to) {
+    await enqueueMail({ to: address, subject: `Partwise receipt ${invoice.number ?? ''}: ${euros(invoice.amountPaid, invoice.currency)} paid`.replace('  ', ' '), text, kind: 'receipt' });
+  }
+}
