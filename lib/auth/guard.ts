@@ -61,7 +61,8 @@ export async function requireWorkspace(request: Request, minRole: WorkspaceRole 
   const wanted = workspaceId ?? (Number(parseCookies(request.headers.get('cookie'))[WORKSPACE_COOKIE]) || undefined);
   let membership = wanted ? await Membership.findOne({ where: { userId: actor.user.id, workspaceId: wanted } }) : null;
   if (!membership && workspaceId !== undefined) throw new AppError('forbidden', 'You are not a member of that workspace.');
-  membership ??= await Membership.findOne({ where: { userId: actor.user.id }, order: [['role', 'DESC'], ['id', 'ASC']] });
+  // No (valid) choice: the workspace joined first, so creating another one does not move people.
+  membership ??= await Membership.findOne({ where: { userId: actor.user.id }, order: [['id', 'ASC']] });
   if (!membership) throw new AppError('forbidden', actor.isStaff ? 'Staff accounts do not belong to workspaces.' : 'You are not a member of any workspace.');
   if (RANK[membership.role] < RANK[minRole]) throw new AppError('forbidden', `Only a workspace ${minRole} may do this.`);
   const workspace = await Workspace.findByPk(membership.workspaceId);
