@@ -46,37 +46,47 @@ export interface SyncOutcome {
 export async function syncSubscription(sub: Stripe.Subscription, context: { actor?: { id: number; email: string } | null; source: string; request?: Request }): Promise<SyncOutcome | null> {
   const row = await subscriptionRowForCustomer(idOf(sub.customer), sub.metadata?.workspaceId);
   if (!row) return null;
-  const from = { plan: row.plan, status: row.status };
-  // An older subscription's news never overrides a newer one that is in force.
-  if (row.subscriptionRef && row.subscriptionRef !== sub.id && IN_FORCE.has(row.status) && !IN_FORCE.has(sub.status)) {
-    return { workspaceId: row.workspaceId, from: from.plan, to: from.plan, changed: false, ignored: 'an older subscription' };
-  }
   const item = sub.items?.data?.[0] as (Stripe.SubscriptionItem & AnyRecord) | undefined;
   const legacy = sub as unknown as AnyRecord;
   const pricePlan = planForPrice(item?.price);
   const ended = ENDED.has(sub.status);
-  const plan = ended ? DEFAULT_PLAN : pricePlan ?? row.plan;
-  await row.update({
-    plan,
-    status: ended ? 'canceled' : sub.status,
-    subscriptionRef: sub.id,
-    currentPeriodStart: toDate(item?.current_period_start ?? legacy.current_period_start),
-    currentPeriodEnd: toDate(item?.current_period_end ?? legacy.current_period_end),
-    cancelAtPeriodEnd: !ended && Boolean(sub.cancel_at_period_end),
-  });
-  const changed = from.plan !== plan || from.status !== row.status;
-  if (from.plan !== plan) {
-    await recordAudit({
-      action: 'billing.plan_changed',
-      actor: context.actor ?? null,
-      workspaceId: row.workspaceId,
-      targetType: 'subscription',
-      targetId: sub.id,
-      detail: { from: from.plan, to: plan, status: sub.status, source: context.source },
-      request: context.request,
-    });
+  // The owner's request and the webhook it triggers may apply the same object at once:
+  // update only from the state we read, so exactly one of them records the change.
+  for (let attempt = 0; ; attempt++) {
+    const from = { plan: row.plan, status: row.status };
+    // An older subscription's news never overrides a newer one that is in force.
+    if (row.subscriptionRef && row.subscriptionRef !== sub.id && IN_FORCE.has(row.status) && !IN_FORCE.has(sub.status)) {
+      return { workspaceId: row.workspaceId, from: from.plan, to: from.plan, changed: false, ignored: 'an older subscription' };
+    }
+    const plan = ended ? DEFAULT_PLAN : pricePlan ?? row.plan;
+    const values = {
+      plan,
+      status: ended ? 'canceled' : sub.status,
+      subscriptionRef: sub.id,
+      currentPeriodStart: toDate(item?.current_period_start ?? legacy.current_period_start),
+      currentPeriodEnd: toDate(item?.current_period_end ?? legacy.current_period_end),
+      cancelAtPeriodEnd: !ended && Boolean(sub.cancel_at_period_end),
+    };
+    const [updated] = await Subscription.update(values, { where: { id: row.id, plan: from.plan, status: from.status } });
+    if (updated !== 1 && attempt < 5) {
+      await row.reload();
+      continue;
+    }
+    await row.reload();
+    const changed = updated === 1 && (from.plan !== plan || from.status !== values.status);
+    if (updated === 1 && from.plan !== plan) {
+      await recordAudit({
+        action: 'billing.plan_changed',
+        actor: context.actor ?? null,
+        workspaceId: row.workspaceId,
+        targetType: 'subscription',
+        targetId: sub.id,
+        detail: { from: from.plan, to: plan, status: sub.status, source: context.source },
+        request: context.request,
+      });
+    }
+    return { workspaceId: row.workspaceId, from: from.plan, to: plan, changed };
   }
-  return { workspaceId: row.workspaceId, from: from.plan, to: plan, changed };
 }
 
 function invoiceSubscriptionRef(inv: Stripe.Invoice): string | null {
