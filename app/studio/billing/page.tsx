@@ -1,0 +1,86 @@
+import type { Metadata } from 'next';
+import { pageWorkspace } from '@/lib/auth/page';
+import { billingSummary, listInvoices } from '@/lib/billing/summary';
+import { AppError } from '@/lib/errors';
+import { PLANS } from '@/lib/plans';
+import { Section, StudioPage } from '@/components/studio/StudioPage';
+import { InvoiceTable } from '@/components/billing/InvoiceTable';
+import { OwnerOnly } from '@/components/billing/OwnerOnly';
+import { PlanChooser } from '@/components/billing/PlanChooser';
+import { UsageMeters } from '@/components/billing/UsageMeters';
+import { day, euros } from '@/components/billing/format';
+
+export const metadata: Metadata = { title: 'Billing' };
+export const dynamic = 'force-dynamic';
+
+const STATUS_TEXT: Record<string, string> = {
+  active: 'Active',
+  trialing: 'Trial',
+  past_due: 'Payment overdue — the payment service is retrying the card',
+  canceled: 'Ended',
+  incomplete: 'Waiting for the first payment',
+};
+
+export default async function BillingPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
+  let actor;
+  try {
+    actor = await pageWorkspace('owner', '/studio/billing');
+  } catch (e) {
+    if (e instanceof AppError && e.code === 'forbidden') return <OwnerOnly />;
+    throw e;
+  }
+  const [summary, invoices, params] = await Promise.all([billingSummary(actor.workspace.id), listInvoices(actor.workspace.id), searchParams]);
+  const { plan, subscription: sub } = summary;
+  const cancelled = params.checkout === 'cancelled';
+
+  return (
+    <StudioPage title="Billing" lead={`Plan, usage and invoices of ${actor.workspace.name}. Amounts are in euros and include everything charged.`}>
+      {cancelled && (
+        <p role="status" className="rounded-lg bg-saffron-100 px-4 py-3 text-sm font-bold text-saffron-700">
+          The checkout was left without paying. Nothing was charged and the plan is unchanged.
+        </p>
+      )}
+      <Section title="Your plan" id="plan">
+        <div className="flex flex-wrap items-end justify-between gap-6">
+          <div>
+            <p className="text-3xl font-semibold" data-testid="current-plan">
+              {plan.name}
+            </p>
+            <p className="mt-1 text-ink-soft">
+              {plan.monthlyPrice === 0 ? 'Free, no card on file needed.' : `${euros(plan.monthlyPrice)} a month · ${STATUS_TEXT[sub.status] ?? sub.status}`}
+            </p>
+            {sub.paid && sub.currentPeriodEnd && (
+              <p className="mt-1 text-sm text-ink-soft">
+                {sub.cancelAtPeriodEnd ? (
+                  <span className="font-bold text-saffron-700">
+                    Ends on {day(sub.currentPeriodEnd)}; the workspace then moves to {PLANS.sketch.name}.
+                  </span>
+                ) : (
+                  <>Renews on {day(sub.currentPeriodEnd)}.</>
+                )}
+              </p>
+            )}
+          </div>
+        </div>
+      </Section>
+
+      <Section title="This month's usage" id="usage" lead={`Counted for ${summary.period}. The answer count starts again on the first of each month.`}>
+        <UsageMeters meters={summary.usage} pauseAt={summary.answers.pauseAt} />
+      </Section>
+
+      <Section title="Change plan" id="plans" lead={sub.paid ? 'Switching between paid plans takes effect at once; the payment service prorates the difference.' : 'Paid plans are paid by card on the payment service’s page.'}>
+        <PlanChooser
+          plans={summary.plans.map((p) => ({ ...p, tagline: PLANS[p.id].tagline }))}
+          currentPlan={plan.id}
+          paid={sub.paid}
+          cancelAtPeriodEnd={sub.cancelAtPeriodEnd}
+          periodEnd={sub.currentPeriodEnd}
+        />
+      </Section>
+
+      <Section title="Invoices" id="invoices" lead="Each paid invoice is also e-mailed to the owners as a receipt.">
+        <InvoiceTable invoices={invoices} />
+      </Section>
+    </StudioPage>
+  );
+}

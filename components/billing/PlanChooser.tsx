@@ -1,0 +1,136 @@
+'use client';
+
+import { useRouter } from 'next/navigation';
+import { useState } from 'react';
+import { billingRequest } from './api';
+import { bytes, day, euros, whole } from './format';
+
+interface PlanOption {
+  id: string;
+  name: string;
+  tagline: string;
+  monthlyPrice: number;
+  limits: { calculators: number; answersPerMonth: number; datasetRows: number; uploadBytes: number; seats: number };
+}
+
+interface Props {
+  plans: PlanOption[];
+  currentPlan: string;
+  /** A paid subscription exists, so changes go through it (not a new checkout). */
+  paid: boolean;
+  cancelAtPeriodEnd: boolean;
+  periodEnd: string | null;
+}
+
+/**
+ * The three plans side by side with what each allows. From the free plan, a paid
+ * plan opens the payment service's checkout; between paid plans the switch happens
+ * at once with the difference prorated; the free plan ends the subscription with
+ * its period. Every change asks once before it is made.
+ */
+export function PlanChooser({ plans, currentPlan, paid, cancelAtPeriodEnd, periodEnd }: Props) {
+  const router = useRouter();
+  const [pending, setPending] = useState<string | null>(null);
+  const [confirming, setConfirming] = useState<string | null>(null);
+  const [error, setError] = useState<string | null>(null);
+  const current = plans.find((p) => p.id === currentPlan);
+
+  async function act(planId: string) {
+    setError(null);
+    setPending(planId);
+    try {
+      if (!paid) {
+        const { url } = await billingRequest<{ url: string }>('/api/billing/checkout', 'POST', { plan: planId });
+        window.location.assign(url);
+        return;
+      }
+      if (planId === currentPlan && cancelAtPeriodEnd) await billingRequest('/api/billing/resume', 'POST');
+      else await billingRequest('/api/billing/plan', 'POST', { plan: planId });
+      setConfirming(null);
+      router.refresh();
+    } catch (e) {
+      setError((e as Error).message);
+    } finally {
+      setPending(null);
+    }
+  }
+
+  function consequence(target: PlanOption): string {
+    if (!paid) return `You will pay ${euros(target.monthlyPrice)} a month by card on the payment page. The plan starts once the payment is confirmed.`;
+    if (target.monthlyPrice === 0) return `Your ${current?.name} plan stays until ${day(periodEnd)}; then the workspace moves to ${target.name} and nothing more is charged.`;
+    if (current && target.monthlyPrice > current.monthlyPrice) return `The switch is immediate. You are charged now for the rest of this period at the ${target.name} price, less what is unused of ${current.name}.`;
+    return `The switch is immediate. What is unused of ${current?.name} becomes credit for your next invoices.`;
+  }
+
+  return (
+    <div>
+      {error && (
+        <div role="alert" className="mb-4 rounded-lg border border-clay-500/30 bg-clay-100 px-4 py-3 text-sm font-bold text-clay-700">
+          {error}
+        </div>
+      )}
+      <ul className="grid gap-4 md:grid-cols-3">
+        {plans.map((p) => {
+          const isCurrent = p.id === currentPlan;
+          const resumable = isCurrent && paid && cancelAtPeriodEnd;
+          const endingHere = !isCurrent && paid && cancelAtPeriodEnd && p.monthlyPrice === 0;
+          let label: string | null = null;
+          if (resumable) label = `Keep ${p.name}`;
+          else if (isCurrent || endingHere) label = null;
+          else if (!paid) label = p.monthlyPrice === 0 ? null : `Upgrade to ${p.name}`;
+          else label = p.monthlyPrice === 0 ? `Cancel — move to ${p.name}` : `Switch to ${p.name}`;
+          return (
+            <li key={p.id} data-plan={p.id} className={`flex flex-col rounded-card p-5 ring-1 ${isCurrent ? 'bg-moss-50 ring-moss-300' : 'bg-white ring-ink/10'}`}>
+              <div className="flex items-baseline justify-between gap-2">
+                <h3 className="text-lg font-semibold">{p.name}</h3>
+                {isCurrent && <span className="rounded-full bg-moss-600 px-2.5 py-0.5 text-xs font-bold text-white">Current</span>}
+                {endingHere && <span className="rounded-full bg-saffron-100 px-2.5 py-0.5 text-xs font-bold text-saffron-700">From {day(periodEnd)}</span>}
+              </div>
+              <p className="mt-1 text-2xl font-semibold tabular-nums">
+                {p.monthlyPrice === 0 ? 'Free' : euros(p.monthlyPrice)}
+                {p.monthlyPrice > 0 && <span className="text-sm font-normal text-ink-soft"> / month</span>}
+              </p>
+              <p className="mt-1 text-sm text-ink-soft">{p.tagline}</p>
+              <dl className="mt-3 space-y-1 text-sm">
+                <Limit label="Published calculators" value={whole(p.limits.calculators)} />
+                <Limit label="Answers a month" value={whole(p.limits.answersPerMonth)} />
+                <Limit label="Rows per dataset" value={whole(p.limits.datasetRows)} />
+                <Limit label="Upload size" value={bytes(p.limits.uploadBytes)} />
+                <Limit label="Seats" value={whole(p.limits.seats)} />
+              </dl>
+              <div className="mt-auto pt-4">
+                {label && confirming !== p.id && (
+                  <button type="button" className={p.monthlyPrice === 0 ? 'pw-button-quiet w-full' : 'pw-button w-full'} disabled={pending !== null} onClick={() => (resumable ? act(p.id) : setConfirming(p.id))}>
+                    {pending === p.id ? 'Working…' : label}
+                  </button>
+                )}
+                {confirming === p.id && (
+                  <div className="rounded-lg bg-paper p-3 text-sm ring-1 ring-ink/10">
+                    <p>{consequence(p)}</p>
+                    <div className="mt-3 flex gap-2">
+                      <button type="button" className="pw-button" disabled={pending !== null} onClick={() => act(p.id)}>
+                        {pending === p.id ? 'Working…' : !paid ? 'Go to payment' : 'Confirm'}
+                      </button>
+                      <button type="button" className="pw-button-quiet" disabled={pending !== null} onClick={() => setConfirming(null)}>
+                        Not now
+                      </button>
+                    </div>
+                  </div>
+                )}
+              </div>
+            </li>
+          );
+        })}
+      </ul>
+    </div>
+  );
+}
+
+function Limit({ label, value }: { label: string; value: string }) {
+  return (
+    <div className="flex justify-between gap-3">
+      <dt className="text-ink-soft">{label}</dt>
+      <dd className="font-bold tabular-nums">{value}</dd>
+    </div>
+  );
+}
