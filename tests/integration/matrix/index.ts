@@ -4,9 +4,10 @@ import * as studio from './studio';
 import * as embeds from './embeds';
 import * as accounts from './accounts';
 import * as billing from './billing';
+import * as support from './support';
 
 /** Every area's rows. A new area adds `import * as area from './area'` and lists it here. */
-const areas: { rows: MatrixRow[]; exemptions?: Exemption[] }[] = [foundation, embeds, accounts, studio, billing];
+const areas: { rows: MatrixRow[]; exemptions?: Exemption[] }[] = [foundation, embeds, accounts, studio, billing, support];
 
 export const allRows: MatrixRow[] = areas.flatMap((a) => a.rows);
 export const allExemptions: Exemption[] = areas.flatMap((a) => a.exemptions ?? []);
