@@ -76,5 +76,6 @@ export const rows: MatrixRow[] = [
     body: () => ({ caution: 'Similarity to groups in our ride logs, not advice.' }),
     expect: studio,
   },
+  { file: 'app/api/models/[id]/review/route.ts', method: 'GET', url: (w) => `/api/models/${w.modelId}/review`, params: (w) => ({ id: String(w.modelId) }), expect: studio },
   { file: 'app/api/models/[id]/download/route.ts', method: 'GET', url: (w) => `/api/models/${w.modelId}/download`, params: (w) => ({ id: String(w.modelId) }), expect: studio },
 ];

@@ -1,0 +1,39 @@
+import { notFound } from 'next/navigation';
+import type { Metadata } from 'next';
+import { pageWorkspace } from '@/lib/auth/page';
+import { AppError } from '@/lib/errors';
+import { findFit } from '@/lib/fitting/jobs';
+import { fitView } from '@/lib/fitting/views';
+import { Dataset } from '@/models';
+import { FitWorkbench } from '@/components/studio/FitWorkbench';
+import { StudioPage } from '@/components/studio/StudioPage';
+
+export const metadata: Metadata = { title: 'Fit' };
+export const dynamic = 'force-dynamic';
+
+export default async function FitPage({ params }: { params: Promise<{ id: string }> }) {
+  const { id } = await params;
+  const actor = await pageWorkspace('member', `/studio/fits/${id}`);
+  const fitId = Number(id);
+  if (!Number.isInteger(fitId) || fitId <= 0) notFound();
+  const fit = await findFit(actor.workspace.id, fitId).catch((e) => {
+    if (e instanceof AppError && e.code === 'not_found') notFound();
+    throw e;
+  });
+  const dataset = await Dataset.findOne({ where: { id: fit.datasetId, workspaceId: actor.workspace.id }, attributes: ['id', 'name'] });
+  const p = fit.params as { features?: string[]; minComponents?: number; maxComponents?: number; covariances?: string[]; restarts?: number; seed?: number; standardize?: boolean; rows?: number; dropped?: number };
+  const view = JSON.parse(JSON.stringify(fitView(fit)));
+  return (
+    <StudioPage
+      trail={[{ href: '/studio/datasets', label: 'Datasets' }, ...(dataset ? [{ href: `/studio/datasets/${dataset.id}`, label: dataset.name }] : [])]}
+      title={`Fit #${fit.id}`}
+      lead={
+        <>
+          {(p.features ?? []).join(', ')} · {p.minComponents}–{p.maxComponents} components · {(p.covariances ?? []).join(', ')} · {p.restarts} restart{p.restarts === 1 ? '' : 's'} · seed {p.seed} · {p.standardize ? 'standardised' : 'raw units'} · {p.rows} rows{p.dropped ? ` (${p.dropped} with gaps left out)` : ''}
+        </>
+      }
+    >
+      <FitWorkbench initial={view} datasetName={dataset?.name ?? 'Model'} />
+    </StudioPage>
+  );
+}

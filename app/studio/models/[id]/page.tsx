@@ -1,0 +1,86 @@
+import Link from 'next/link';
+import { notFound } from 'next/navigation';
+import type { Metadata } from 'next';
+import { pageWorkspace } from '@/lib/auth/page';
+import { AppError } from '@/lib/errors';
+import { findModel } from '@/lib/fitting/models';
+import { Dataset } from '@/models';
+import { ModelEditor } from '@/components/studio/ModelEditor';
+import { ReviewPanel } from '@/components/studio/ReviewPanel';
+import { Section, StudioPage } from '@/components/studio/StudioPage';
+import { num } from '@/components/studio/format';
+
+export const metadata: Metadata = { title: 'Model' };
+export const dynamic = 'force-dynamic';
+
+interface EngineModelShape {
+  structure: string;
+  weights: number[];
+  means: number[][];
+  bic: number;
+  features: { name: string; unit: string | null }[];
+  training: { rows: number };
+  ranking?: { rank: number | null; components: number; covariance: string }[];
+}
+
+export default async function ModelPage({ params }: { params: Promise<{ id: string }> }) {
+  const { id } = await params;
+  const actor = await pageWorkspace('member', `/studio/models/${id}`);
+  const modelId = Number(id);
+  if (!Number.isInteger(modelId) || modelId <= 0) notFound();
+  const model = await findModel(actor.workspace.id, modelId).catch((e) => {
+    if (e instanceof AppError && e.code === 'not_found') notFound();
+    throw e;
+  });
+  const engine = model.model as unknown as EngineModelShape;
+  const dataset = model.datasetId ? await Dataset.findOne({ where: { id: model.datasetId, workspaceId: actor.workspace.id }, attributes: ['id', 'name'] }) : null;
+  const rank = engine.ranking?.find((r) => r.components === engine.weights.length && r.covariance === engine.structure)?.rank;
+  return (
+    <StudioPage
+      trail={[{ href: '/studio/models', label: 'Models' }, ...(dataset ? [{ href: `/studio/datasets/${dataset.id}`, label: dataset.name }] : [])]}
+      title={model.name}
+      lead={
+        <>
+          {engine.weights.length} clusters · {engine.structure} covariance · {engine.features.length} features · fitted on {engine.training.rows} rows · BIC {num(engine.bic, 1)}
+          {rank ? ` (rank ${rank})` : ''}
+          {model.fitId ? (
+            <>
+              {' · '}
+              <Link href={`/studio/fits/${model.fitId}`} className="font-bold text-moss-700 hover:underline">
+                fit #{model.fitId}
+              </Link>
+            </>
+          ) : null}
+        </>
+      }
+      actions={
+        <a className="pw-button-quiet" href={`/api/models/${model.id}/download`} download>
+          Download model JSON
+        </a>
+      }
+    >
+      {model.selectionNote && (
+        <Section title="Why this candidate" id="note">
+          <p className="text-ink-soft">{model.selectionNote}</p>
+        </Section>
+      )}
+      <Section title="Name the clusters" id="naming" lead="Look at the means below and at the scatter, then give each cluster a name people will recognise.">
+        <ModelEditor modelId={model.id} name={model.name} clusters={model.clusters} fields={model.fields} caution={model.caution} means={engine.means} weights={engine.weights} />
+      </Section>
+      {dataset ? (
+        <Section title="The clusters in the data" id="review">
+          <ReviewPanel
+            baseUrl={`/api/models/${model.id}/review`}
+            labels={model.clusters.map((c) => c.label)}
+            colors={model.clusters.map((c) => c.color)}
+            features={model.fields.map((f) => ({ name: f.feature, displayName: f.label, unit: f.unit }))}
+          />
+        </Section>
+      ) : (
+        <Section title="The clusters in the data" id="review">
+          <p className="text-sm text-ink-soft">The dataset this model was fitted to has been deleted; the model itself is complete and can still be published.</p>
+        </Section>
+      )}
+    </StudioPage>
+  );
+}

@@ -1,0 +1,156 @@
+'use client';
+
+import { useRouter } from 'next/navigation';
+import { useState } from 'react';
+import useSWR from 'swr';
+import { CriterionChart } from '@/components/charts/CriterionChart';
+import type { FitView } from '@/lib/fitting/views';
+import { clusterColor } from '@/lib/fitting/palette';
+import { api, ApiError, fetcher } from './client-api';
+import { FitProgressPanel, type ProgressFit } from './FitProgressPanel';
+import { num } from './format';
+import { ReviewPanel } from './ReviewPanel';
+import { ErrorNote, Section } from './StudioPage';
+
+type FitJson = Omit<FitView, 'startedAt' | 'finishedAt' | 'createdAt'> & { startedAt: string | null; finishedAt: string | null; createdAt: string };
+
+/** A fit from start to choice: live progress, then the ranked candidates, their review, and keeping one as a model. */
+export function FitWorkbench({ initial, datasetName }: { initial: FitJson; datasetName: string }) {
+  const { data, mutate } = useSWR<{ fit: FitJson }>(`/api/fits/${initial.id}`, fetcher, {
+    fallbackData: { fit: initial },
+    refreshInterval: (d) => (d && (d.fit.status === 'queued' || d.fit.status === 'running') ? 700 : 0),
+  });
+  const fit = data?.fit ?? initial;
+  const result = fit.result;
+  const [chosen, setChosen] = useState(0);
+
+  return (
+    <>
+      <Section title="Progress" id="progress">
+        <FitProgressPanel fit={fit as unknown as ProgressFit} onChange={() => void mutate()} />
+      </Section>
+      {fit.status === 'succeeded' && result && (
+        <>
+          <Section title="Model choice" id="choice" lead="BIC and AIC for every candidate (lower is better). The ring marks the candidate you are looking at; BIC's pick is ranked first.">
+            <div data-testid="criterion-chart" className="min-h-[260px] overflow-x-auto">
+              <CriterionChart candidates={result.candidates.map((c) => ({ components: c.components, covariance: c.covariance, bic: c.bic, aic: c.aic, index: c.index }))} chosen={chosen} />
+            </div>
+            <CandidateTable candidates={result.candidates} chosen={chosen} onChoose={setChosen} />
+          </Section>
+          <ChosenCandidate key={chosen} fit={fit} index={chosen} datasetName={datasetName} />
+        </>
+      )}
+    </>
+  );
+}
+
+type Candidate = NonNullable<FitJson['result']>['candidates'][number];
+
+function CandidateTable({ candidates, chosen, onChoose }: { candidates: Candidate[]; chosen: number; onChoose: (i: number) => void }) {
+  const best = candidates.find((c) => c.rank === 1);
+  return (
+    <div className="mt-6 max-h-96 overflow-auto">
+      <table className="w-full text-left text-sm" aria-label="Candidates">
+        <thead className="sticky top-0 border-b border-ink/10 bg-white text-ink-soft">
+          <tr>
+            <th className="py-2 pr-3 font-bold">Look at</th>
+            <th className="py-2 pr-3 text-right font-bold">Rank</th>
+            <th className="py-2 pr-3 text-right font-bold">Components</th>
+            <th className="py-2 pr-3 font-bold">Covariance</th>
+            <th className="py-2 pr-3 text-right font-bold">BIC</th>
+            <th className="py-2 pr-3 text-right font-bold">ΔBIC</th>
+            <th className="py-2 pr-3 text-right font-bold">AIC</th>
+            <th className="py-2 pr-3 text-right font-bold">Log-likelihood</th>
+            <th className="py-2 pr-3 text-right font-bold">Parameters</th>
+            <th className="py-2 font-bold">Iterations</th>
+          </tr>
+        </thead>
+        <tbody>
+          {candidates.map((c) => (
+            <tr key={c.index} className={`border-b border-ink/5 ${c.index === chosen ? 'bg-moss-50' : ''}`}>
+              <td className="py-1.5 pr-3">
+                <input type="radio" name="candidate" aria-label={`${c.components} components, ${c.covariance}`} className="accent-moss-600" disabled={!!c.error} checked={c.index === chosen} onChange={() => onChoose(c.index)} />
+              </td>
+              <td className="py-1.5 pr-3 text-right tabular-nums">{c.rank ?? '—'}</td>
+              <td className="py-1.5 pr-3 text-right tabular-nums">{c.components}</td>
+              <td className="py-1.5 pr-3">{c.covariance}</td>
+              {c.error ? (
+                <td colSpan={6} className="py-1.5 text-xs text-clay-700">
+                  {c.error}
+                </td>
+              ) : (
+                <>
+                  <td className="py-1.5 pr-3 text-right tabular-nums">{num(c.bic, 1)}</td>
+                  <td className="py-1.5 pr-3 text-right tabular-nums text-ink-soft">{best && c.bic !== null && best.bic !== null ? (c.rank === 1 ? 'best' : `+${num(c.bic - best.bic, 1)}`) : '—'}</td>
+                  <td className="py-1.5 pr-3 text-right tabular-nums">{num(c.aic, 1)}</td>
+                  <td className="py-1.5 pr-3 text-right tabular-nums">{num(c.logLikelihood, 1)}</td>
+                  <td className="py-1.5 pr-3 text-right tabular-nums">{c.parameters}</td>
+                  <td className="py-1.5 tabular-nums">
+                    {c.iterations}
+                    {c.converged ? '' : <span className="ml-1 text-xs font-bold text-saffron-700">not converged</span>}
+                  </td>
+                </>
+              )}
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}
+
+function ChosenCandidate({ fit, index, datasetName }: { fit: FitJson; index: number; datasetName: string }) {
+  const router = useRouter();
+  const result = fit.result!;
+  const c = result.candidates[index];
+  const labels = Array.from({ length: c.components }, (_, k) => `Cluster ${k + 1}`);
+  const colors = labels.map((_, k) => clusterColor(k));
+  const [name, setName] = useState(`${datasetName}: ${c.components} ${c.covariance}`);
+  const [note, setNote] = useState('');
+  const [busy, setBusy] = useState(false);
+  const [error, setError] = useState<ApiError | null>(null);
+  const isBest = c.rank === 1;
+
+  return (
+    <>
+      <Section title={`${c.components} component${c.components === 1 ? '' : 's'}, ${c.covariance} covariance`} id="review" lead={isBest ? 'The candidate with the lowest BIC.' : `Ranked ${c.rank} by BIC.`}>
+        <ReviewPanel baseUrl={`/api/fits/${fit.id}/review?candidate=${index}`} labels={labels} colors={colors} features={result.features} />
+      </Section>
+      <Section title="Keep this model" id="keep" lead="Keeping it lets you name the clusters and, later, publish it as a calculator.">
+        <form
+          className="space-y-4"
+          onSubmit={async (e) => {
+            e.preventDefault();
+            setBusy(true);
+            setError(null);
+            try {
+              const { model } = await api<{ model: { id: number } }>('/api/models', { method: 'POST', json: { fitId: fit.id, candidate: index, name, selectionNote: note } });
+              router.push(`/studio/models/${model.id}`);
+            } catch (err) {
+              setError(err instanceof ApiError ? err : new ApiError('Could not keep the model.', 0));
+              setBusy(false);
+            }
+          }}
+        >
+          <div>
+            <label className="pw-label" htmlFor="model-name">
+              Model name
+            </label>
+            <input id="model-name" className="pw-input" value={name} onChange={(e) => setName(e.target.value)} maxLength={200} />
+          </div>
+          <div>
+            <label className="pw-label" htmlFor="selection-note">
+              Why this candidate? {isBest ? <span className="font-normal text-ink-faint">(optional)</span> : <span className="font-normal text-clay-700">(needed: BIC prefers another)</span>}
+            </label>
+            <textarea id="selection-note" className="pw-input h-20" value={note} onChange={(e) => setNote(e.target.value)} maxLength={2000} placeholder={isBest ? '' : 'e.g. four groups match the ride groups the club runs, and BIC differs by only a few points.'} />
+            {error?.issues.find((i) => i.field === 'selectionNote') && <p className="pw-field-error">Say why you prefer it to BIC&apos;s choice.</p>}
+          </div>
+          <button type="submit" className="pw-button" disabled={busy}>
+            {busy ? 'Saving…' : 'Keep and name clusters'}
+          </button>
+          {error && <ErrorNote message={error.message} issues={error.issues} />}
+        </form>
+      </Section>
+    </>
+  );
+}
