@@ -56,6 +56,18 @@ export class AppError extends Error {
   /** Wrap anything thrown into an AppError; unknown errors keep no detail for the client. */
   static from(error: unknown): AppError {
     if (error instanceof AppError) return error;
+    // A write that waited out the busy timeout: the database is busy, not broken.
+    if (isDatabaseBusy(error)) {
+      return new AppError('unavailable', 'The service is busy right now. Please try again in a moment.', { cause: error, headers: { 'Retry-After': '2' } });
+    }
     return new AppError('internal', 'Something went wrong on our side. Please try again.', { cause: error });
   }
+}
+
+function isDatabaseBusy(error: unknown): boolean {
+  for (let e = error as { message?: string; code?: string; parent?: unknown; original?: unknown } | undefined, depth = 0; e && depth < 4; depth++) {
+    if (e.code === 'SQLITE_BUSY' || e.code === 'SQLITE_LOCKED' || /SQLITE_BUSY|database is locked/i.test(String(e.message ?? ''))) return true;
+    e = (e.parent ?? e.original) as typeof e;
+  }
+  return false;
 }

@@ -36,7 +36,8 @@ function createSequelize(storage: string): Sequelize {
     storage,
     logging: process.env.DB_LOG === '1' ? console.log : false,
     define: { underscored: true, timestamps: true },
-    retry: { max: 5, match: [/SQLITE_BUSY/] },
+    // The busy timeout is the one wait; Sequelize's default five retries would stretch it fivefold.
+    retry: { max: 1 },
   });
   // The sqlite dialect has no connect hook, and transactions open handles of their
   // own, so every handle gets the pragmas the moment the dialect hands it out.
