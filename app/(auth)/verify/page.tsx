@@ -1,0 +1,50 @@
+import type { Metadata } from 'next';
+import Link from 'next/link';
+import { AuthPanel } from '@/components/account/AuthPanel';
+import { EmailRequestForm } from '@/components/account/EmailRequestForm';
+import { VerifyEmail } from '@/components/account/VerifyEmail';
+import { devMailEnabled } from '@/lib/mail/dev';
+
+export const metadata: Metadata = { title: 'Confirm your e-mail' };
+export const dynamic = 'force-dynamic';
+
+export default async function VerifyPage({ searchParams }: { searchParams: Promise<Record<string, string | undefined>> }) {
+  const { token, email, sent } = await searchParams;
+  if (token) {
+    return (
+      <AuthPanel title="Confirming your e-mail">
+        <VerifyEmail token={token} />
+      </AuthPanel>
+    );
+  }
+  return (
+    <AuthPanel
+      title={sent ? 'Check your inbox' : 'Confirm your e-mail'}
+      lead={
+        sent ? (
+          <>
+            We sent a confirmation link to <strong className="text-ink">{email ?? 'your address'}</strong>. Open it to finish, then sign in.
+          </>
+        ) : (
+          'Lost the mail, or the link expired? We will send a fresh one.'
+        )
+      }
+      footer={
+        <Link href="/signin" className="font-bold text-moss-700 hover:underline">
+          Back to sign in
+        </Link>
+      }
+    >
+      {devMailEnabled() ? (
+        <p className="mb-5 rounded-lg bg-saffron-100 px-4 py-3 text-sm text-ink">
+          Local run: mail goes to the local mail sink, not the internet.{' '}
+          <Link href="/dev/mail" className="font-bold underline">
+            Open the mail sink
+          </Link>
+        </p>
+      ) : null}
+      <p className="mb-3 text-sm text-ink-soft">{sent ? 'Nothing arrived after a few minutes? Check spam, or send it again:' : ''}</p>
+      <EmailRequestForm endpoint="/api/account/verify/resend" submitLabel="Send a new link" defaultEmail={email} />
+    </AuthPanel>
+  );
+}

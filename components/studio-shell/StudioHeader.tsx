@@ -1,0 +1,35 @@
+import Link from 'next/link';
+import { Logo } from '@/components/brand/Logo';
+import type { WorkspaceChoice } from '@/lib/accounts/workspaces';
+import type { WorkspaceRole } from '@/models';
+import { StudioNav, type NavItem } from './StudioNav';
+import { UserMenu } from './UserMenu';
+import { WorkspaceSwitcher } from './WorkspaceSwitcher';
+
+/**
+ * The signed-in header. Links for owners or staff are hidden from others as a
+ * courtesy only: the pages and routes behind them check the role themselves.
+ */
+export function StudioHeader(props: { user: { name: string; email: string }; isStaff: boolean; role: WorkspaceRole | null; workspaces: WorkspaceChoice[]; currentWorkspaceId: number | null }) {
+  const items: NavItem[] = [];
+  if (props.role) {
+    items.push({ href: '/studio/datasets', label: 'Datasets' }, { href: '/studio/fits', label: 'Fits' }, { href: '/studio/calculators', label: 'Calculators' }, { href: '/studio/team', label: 'Team' });
+    if (props.role === 'owner') items.push({ href: '/studio/billing', label: 'Billing' });
+  }
+  if (props.isStaff) items.push({ href: '/support', label: 'Support' });
+  const roleLabel = props.isStaff ? 'Partwise staff' : props.role === 'owner' ? 'Owner of this workspace' : props.role === 'member' ? 'Member of this workspace' : 'No workspace';
+  return (
+    <header className="border-b border-ink/10 bg-white/70">
+      <div className="mx-auto flex max-w-6xl flex-wrap items-center gap-x-6 gap-y-3 px-6 py-3">
+        <Link href="/studio" aria-label="Studio overview">
+          <Logo />
+        </Link>
+        {props.currentWorkspaceId ? <WorkspaceSwitcher workspaces={props.workspaces} currentId={props.currentWorkspaceId} /> : null}
+        <div className="flex-1">
+          <StudioNav items={items} />
+        </div>
+        <UserMenu name={props.user.name} email={props.user.email} role={roleLabel} />
+      </div>
+    </header>
+  );
+}

@@ -1,0 +1,26 @@
+'use client';
+
+import { signOut } from 'next-auth/react';
+
+/** Who is signed in, and the way out. A <details> keeps it usable without scripts for reading. */
+export function UserMenu({ name, email, role }: { name: string; email: string; role: string }) {
+  const initials = (name || email).split(/\s+/).map((p) => p[0]?.toUpperCase() ?? '').slice(0, 2).join('');
+  return (
+    <details className="group relative">
+      <summary className="flex cursor-pointer list-none items-center gap-2 rounded-full py-1 pl-1 pr-3 text-sm font-bold text-ink ring-1 ring-ink/10 hover:bg-paper-deep">
+        <span aria-hidden="true" className="grid h-7 w-7 place-items-center rounded-full bg-moss-600 text-xs text-white">
+          {initials}
+        </span>
+        <span className="max-w-[10rem] truncate">{name || email}</span>
+      </summary>
+      <div className="absolute right-0 z-20 mt-2 w-64 rounded-card bg-white p-4 shadow-card ring-1 ring-ink/10">
+        <p className="truncate text-sm font-bold">{name}</p>
+        <p className="truncate text-sm text-ink-soft">{email}</p>
+        <p className="mt-1 text-xs text-ink-faint">{role}</p>
+        <button type="button" className="pw-button-quiet mt-4 w-full" onClick={() => signOut({ callbackUrl: '/' })}>
+          Sign out
+        </button>
+      </div>
+    </details>
+  );
+}
