@@ -128,16 +128,26 @@ export async function ownerEmails(workspaceId: number): Promise<string[]> {
   return owners.map((m) => (m as unknown as { User?: User }).User?.email).filter((e): e is string => !!e);
 }
 
+// Alerts known to be sent, so answers past a threshold skip the insert (safe to lose).
+const sentCache = new Set<string>();
+
 /** Claim one alert row; true only for the caller that inserted it. */
 async function claimAlert(workspaceId: number, period: string, threshold: number, used: number, limit: number): Promise<boolean> {
+  const key = `${workspaceId}:${period}:${threshold}`;
+  if (sentCache.has(key)) return false;
+  if (sentCache.size > 10_000) sentCache.clear();
   try {
     await sequelize.query('INSERT INTO usage_alerts (workspace_id, period, threshold, used, answer_limit, created_at) VALUES (?, ?, ?, ?, ?, ?)', {
       replacements: [workspaceId, period, threshold, used, limit, new Date().toISOString()],
       type: QueryTypes.INSERT,
     });
+    sentCache.add(key);
     return true;
   } catch (e) {
-    if (e instanceof UniqueConstraintError) return false;
+    if (e instanceof UniqueConstraintError) {
+      sentCache.add(key);
+      return false;
+    }
     throw e;
   }
 }

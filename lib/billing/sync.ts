@@ -41,6 +41,8 @@ export interface SyncOutcome {
   to: string;
   changed: boolean;
   ignored?: string;
+  /** A different subscription that was in force and that this one replaced (to be ended). */
+  replaced?: string;
 }
 
 export async function syncSubscription(sub: Stripe.Subscription, context: { actor?: { id: number; email: string } | null; source: string; request?: Request }): Promise<SyncOutcome | null> {
@@ -59,6 +61,7 @@ export async function syncSubscription(sub: Stripe.Subscription, context: { acto
       return { workspaceId: row.workspaceId, from: from.plan, to: from.plan, changed: false, ignored: 'an older subscription' };
     }
     const plan = ended ? DEFAULT_PLAN : pricePlan ?? row.plan;
+    const replaced = row.subscriptionRef && row.subscriptionRef !== sub.id && IN_FORCE.has(row.status) && IN_FORCE.has(sub.status) ? row.subscriptionRef : undefined;
     const values = {
       plan,
       status: ended ? 'canceled' : sub.status,
@@ -85,7 +88,7 @@ export async function syncSubscription(sub: Stripe.Subscription, context: { acto
         request: context.request,
       });
     }
-    return { workspaceId: row.workspaceId, from: from.plan, to: plan, changed };
+    return { workspaceId: row.workspaceId, from: from.plan, to: plan, changed, ...(updated === 1 && replaced ? { replaced } : {}) };
   }
 }
 

@@ -44,10 +44,12 @@ async function apply(event: Stripe.Event): Promise<{ handled: boolean; workspace
       const subId = typeof session.subscription === 'string' ? session.subscription : session.subscription?.id;
       if (!subId) return { handled: false, workspaceId: null };
       const outcome = await syncSubscription(await client.subscriptions.retrieve(subId), { source });
+      await endReplaced(client, outcome);
       return { handled: !!outcome, workspaceId: outcome?.workspaceId ?? null, outcome };
     }
     if (SUBSCRIPTION_EVENTS.has(event.type) && object.id) {
       const outcome = await syncSubscription(await client.subscriptions.retrieve(object.id), { source });
+      await endReplaced(client, outcome);
       return { handled: !!outcome, workspaceId: outcome?.workspaceId ?? null, outcome };
     }
     if (INVOICE_EVENTS.has(event.type) && object.id) {
@@ -58,6 +60,22 @@ async function apply(event: Stripe.Event): Promise<{ handled: boolean; workspace
     throw paymentsError(e, `processing the ${event.type} event`);
   }
   return { handled: false, workspaceId: null };
+}
+
+/**
+ * Two checkouts paid one after the other leave two live subscriptions; the newer one
+ * is what the owner chose last, so the older one ends at once instead of billing on.
+ */
+async function endReplaced(client: Stripe, outcome: SyncOutcome | null) {
+  if (!outcome?.replaced) return;
+  try {
+    await client.subscriptions.cancel(outcome.replaced);
+    await recordAudit({ action: 'billing.subscription_replaced', workspaceId: outcome.workspaceId, targetType: 'subscription', targetId: outcome.replaced, detail: { plan: outcome.to } });
+  } catch (e) {
+    // The newer plan is already in force; support sees the audit entry and ends the old one by hand.
+    console.error('[billing] could not end replaced subscription', outcome.replaced, e);
+    await recordAudit({ action: 'billing.subscription_replace_failed', workspaceId: outcome.workspaceId, targetType: 'subscription', targetId: outcome.replaced, detail: { error: String((e as Error).message).slice(0, 200) } });
+  }
 }
 
 export async function processWebhook(rawBody: string, signature: string | null, request?: Request): Promise<WebhookResult> {

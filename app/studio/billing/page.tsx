@@ -40,6 +40,11 @@ export default async function BillingPage({ searchParams }: { searchParams: Prom
           The checkout was left without paying. Nothing was charged and the plan is unchanged.
         </p>
       )}
+      {summary.answers.state === 'paused' && (
+        <p role="alert" className="rounded-lg border border-clay-500/30 bg-clay-100 px-4 py-3 text-sm font-bold text-clay-700">
+          Your calculators have used this month&apos;s answers and the grace after them, so visitors now see a neutral “temporarily unavailable” notice. They answer again on the first of next month, or at once after an upgrade.
+        </p>
+      )}
       <Section title="Your plan" id="plan">
         <div className="flex flex-wrap items-end justify-between gap-6">
           <div>

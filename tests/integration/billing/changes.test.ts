@@ -6,7 +6,7 @@ import { POST as resumePOST } from '@/app/api/billing/resume/route';
 import { assertCanPublish, workspacePlan } from '@/lib/billing/limits';
 import { AppError } from '@/lib/errors';
 import { makeRequest } from '../../helpers/auth';
-import { ownerWorkspace, startBillingStack, subscribe, type BillingStack } from './stack';
+import { SUCCESS_CARD, ownerWorkspace, startBillingStack, startCheckout, submitCard, subscribe, type BillingStack } from './stack';
 
 let stack: BillingStack;
 beforeAll(async () => {
@@ -117,6 +117,20 @@ describe('changing and ending a subscription', () => {
     stack.fake.state.events.push(copy);
     await fetch(`${stack.fake.url}/_test/events/${copy.id}/replay`, { method: 'POST' });
     expect(await sub(ws.id)).toMatchObject({ plan: 'lab', status: 'active' });
+  });
+
+  it('two checkouts paid one after the other: the later plan wins and the earlier subscription is ended', async () => {
+    const { ws, owner } = await ownerWorkspace();
+    const first = await startCheckout(owner.id, 'bench');
+    const second = await startCheckout(owner.id, 'lab');
+    expect((await submitCard(first.body.url!, SUCCESS_CARD)).status).toBe(303);
+    await stack.fake.webhooks.idle();
+    const benchRef = (await sub(ws.id))!.subscriptionRef!;
+    expect((await submitCard(second.body.url!, SUCCESS_CARD)).status).toBe(303);
+    await stack.fake.webhooks.idle();
+    expect(await sub(ws.id)).toMatchObject({ plan: 'lab', status: 'active' });
+    expect(stack.fake.state.subscriptions.get(benchRef)!.status).toBe('canceled');
+    expect(await AuditEvent.count({ where: { workspaceId: ws.id, action: 'billing.subscription_replaced', targetId: benchRef } })).toBe(1);
   });
 
   it('only owners change plans', async () => {
