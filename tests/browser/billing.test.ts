@@ -87,4 +87,24 @@ describe('billing in the browser', () => {
     expect(await page.locator('[data-plan="lab"] button', { hasText: 'Switch to Lab' }).count()).toBe(1);
     await screenshot(page, 'billing-6-bench');
   });
+
+  it('the owner switches to Lab (prorated invoice at once), then cancels and can take it back', async () => {
+    await page.goto(appUrl('/studio/billing'));
+    await page.locator('[data-plan="lab"] button', { hasText: 'Switch to Lab' }).click();
+    await page.getByText('The switch is immediate').waitFor();
+    await screenshot(page, 'billing-7-confirm-switch');
+    await page.locator('[data-plan="lab"]').getByRole('button', { name: 'Confirm' }).click();
+    await expect.poll(() => page.getByTestId('current-plan').textContent(), { timeout: 15_000 }).toBe('Lab');
+    await expect.poll(() => page.locator('[data-invoice]').count(), { timeout: 15_000 }).toBe(2);
+
+    await page.locator('[data-plan="sketch"] button', { hasText: 'Cancel — move to Sketch' }).click();
+    await page.locator('[data-plan="sketch"]').getByRole('button', { name: 'Confirm' }).click();
+    await page.getByText(/Ends on .*; the workspace then moves to Sketch/).waitFor({ timeout: 15_000 });
+    expect(await page.getByTestId('current-plan').textContent()).toBe('Lab');
+    expect(await page.locator('[data-plan="lab"] button', { hasText: 'Keep Lab' }).count()).toBe(1);
+    await screenshot(page, 'billing-8-cancelled');
+
+    await page.locator('[data-plan="lab"] button', { hasText: 'Keep Lab' }).click();
+    await page.getByText(/Renews on/).waitFor({ timeout: 15_000 });
+  });
 });
