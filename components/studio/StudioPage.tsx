@@ -3,7 +3,7 @@ import Link from 'next/link';
 /** Heading block shared by studio pages: a trail back, a title and a one-line lead. */
 export function StudioPage({ trail, title, lead, actions, children }: { trail?: { href: string; label: string }[]; title: string; lead?: React.ReactNode; actions?: React.ReactNode; children: React.ReactNode }) {
   return (
-    <div className="mx-auto w-full max-w-6xl px-6 py-10">
+    <div className="w-full">
       {trail && trail.length > 0 && (
         <nav aria-label="Breadcrumb" className="mb-3 text-sm text-ink-soft">
           {trail.map((t, i) => (

@@ -10,7 +10,7 @@ import { parseWith } from '@/lib/http/handler';
 import { Dataset, Fit, MixtureModel, sequelize } from '@/models';
 import type { DatasetColumn } from '@/models/Dataset';
 import { decodeCsvBytes, parseCsvText } from './parse';
-import { assertRowCount, assertUploadSize } from './limits';
+import { assertUploadBytes, assertUploadRows } from './limits';
 
 export { MIN_DATA_ROWS } from './parse';
 
@@ -28,9 +28,9 @@ export function datasetNameFrom(filename: string): string {
 }
 
 export async function createDataset(input: UploadInput): Promise<Dataset> {
-  await assertUploadSize(input.workspaceId, input.bytes.length);
+  await assertUploadBytes(input.workspaceId, input.bytes.length);
   const table = parseCsvText(decodeCsvBytes(input.bytes));
-  await assertRowCount(input.workspaceId, table.completeRows);
+  await assertUploadRows(input.workspaceId, table.completeRows, input.bytes.length);
   const filename = (input.filename || 'pasted.csv').slice(0, 255);
   return Dataset.create({
     workspaceId: input.workspaceId,

@@ -1,34 +1,26 @@
 import { AppError } from '@/lib/errors';
-import { getPlan, type Plan } from '@/lib/plans';
-import { Subscription } from '@/models';
+import { assertRowsAllowed, workspacePlan } from '@/lib/billing/limits';
 
 /**
- * Upload limits of a workspace's plan. Limits themselves live in lib/plans.ts only;
- * this reads the workspace's plan from its subscription (no subscription = the free plan).
+ * Upload limits. The limits live in lib/plans.ts and the billing module decides which
+ * plan is in force; this only asks it, at the two moments an upload can be refused.
  */
-export async function workspacePlan(workspaceId: number): Promise<Plan> {
-  const subscription = await Subscription.findOne({ where: { workspaceId } });
-  return getPlan(subscription?.plan);
-}
 
-export function formatBytes(bytes: number): string {
-  if (bytes >= 1024 * 1024) return `${(bytes / (1024 * 1024)).toFixed(bytes % (1024 * 1024) === 0 ? 0 : 1)} MB`;
-  if (bytes >= 1024) return `${Math.round(bytes / 1024)} KB`;
-  return `${bytes} bytes`;
-}
-
-/** Refuse a file over the plan's upload size, before it is parsed. */
-export async function assertUploadSize(workspaceId: number, bytes: number): Promise<void> {
+/** Before reading the body: a declared length far over the plan's size is refused unread. */
+export async function assertDeclaredSize(workspaceId: number, declaredBytes: number): Promise<void> {
   const plan = await workspacePlan(workspaceId);
-  if (bytes > plan.limits.uploadBytes) {
-    throw new AppError('payload_too_large', `The file is ${formatBytes(bytes)}; the ${plan.name} plan accepts uploads up to ${formatBytes(plan.limits.uploadBytes)}.`);
+  // Multipart framing adds a little; the file itself is checked exactly after reading.
+  if (declaredBytes - 4096 > plan.limits.uploadBytes) {
+    throw new AppError('payload_too_large', `The upload is larger than the ${plan.name} plan's limit of ${Math.round(plan.limits.uploadBytes / (1024 * 1024))} MB per file.`);
   }
 }
 
-/** Refuse a table with more usable rows than the plan allows. */
-export async function assertRowCount(workspaceId: number, rows: number): Promise<void> {
-  const plan = await workspacePlan(workspaceId);
-  if (rows > plan.limits.datasetRows) {
-    throw new AppError('plan_limit', `The table has ${rows.toLocaleString('en')} complete rows; the ${plan.name} plan allows ${plan.limits.datasetRows.toLocaleString('en')} per dataset. Upload a sample of the rows or move to a larger plan.`);
-  }
+/** The file as received, before parsing. */
+export async function assertUploadBytes(workspaceId: number, bytes: number): Promise<void> {
+  await assertRowsAllowed(workspaceId, 0, bytes);
+}
+
+/** After parsing: rows with a number in every numeric column. */
+export async function assertUploadRows(workspaceId: number, rows: number, bytes: number): Promise<void> {
+  await assertRowsAllowed(workspaceId, rows, bytes);
 }

@@ -1,5 +1,5 @@
 import { AppError } from '@/lib/errors';
-import { assertUploadSize } from './limits';
+import { assertDeclaredSize } from './limits';
 
 export interface UploadedFile {
   bytes: Uint8Array;
@@ -15,8 +15,7 @@ export interface UploadedFile {
  */
 export async function readUpload(request: Request, workspaceId: number): Promise<UploadedFile> {
   const declared = Number(request.headers.get('content-length') ?? '0');
-  // Multipart framing adds a little; the file itself is checked exactly below.
-  if (declared > 0) await assertUploadSize(workspaceId, Math.max(0, declared - 2048));
+  if (declared > 0) await assertDeclaredSize(workspaceId, declared);
   const type = (request.headers.get('content-type') ?? '').toLowerCase();
   const url = new URL(request.url);
   if (type.startsWith('multipart/form-data')) {
