@@ -12,5 +12,6 @@ export async function register() {
       // A database that is not migrated yet must not stop the server from answering /api/health.
       console.error('[partwise] could not check for interrupted fit jobs:', (e as Error).message);
     }
+    (await import('@/lib/support/timers')).startSupportTimers();
   }
 }

@@ -1,0 +1,46 @@
+/** Formatting shared by support pages; dates always in UTC so server and browser agree. */
+export const fmtCount = (n: number) => n.toLocaleString('en-US');
+
+export function fmtDateTime(iso: string | null | undefined): string {
+  if (!iso) return '—';
+  const d = new Date(iso);
+  return `${d.toISOString().slice(0, 10)} ${d.toISOString().slice(11, 16)} UTC`;
+}
+
+export function fmtDate(iso: string | null | undefined): string {
+  return iso ? new Date(iso).toISOString().slice(0, 10) : '—';
+}
+
+/** Start and end of a token, enough to recognise it without a wall of characters. */
+export function shortToken(token: string): string {
+  return token.length > 14 ? `${token.slice(0, 8)}…${token.slice(-4)}` : token;
+}
+
+export const ACTION_LABELS: Record<string, string> = {
+  'support.embed_disabled': 'Switched off by support',
+  'support.embed_enabled': 'Switched on by support',
+  'support.embed_flagged': 'Flagged: answer spike',
+  'support.flag_cleared': 'Spike flag cleared',
+  'support.workspace_suspended': 'Workspace suspended',
+  'support.workspace_restored': 'Workspace restored',
+  'support.report_closed': 'Report closed',
+  'support.report_reopened': 'Report reopened',
+  'embed.publish': 'Published',
+  'embed.rotate_token': 'Token rotated',
+  'embed.retire': 'Retired',
+  'embed.activate_version': 'Served version changed',
+  'embed.origins': 'Allowed sites changed',
+};
+
+export function actionLabel(action: string): string {
+  return ACTION_LABELS[action] ?? action;
+}
+
+/** The few detail fields worth a line in a trail, as "key: value" text. */
+export function detailSummary(detail: Record<string, unknown>): string {
+  const keys = ['reason', 'note', 'previousReason', 'version', 'lastHour', 'usualPerHour', 'closedReports', 'calculators', 'plan', 'role', 'email', 'type'];
+  return keys
+    .filter((k) => detail[k] !== undefined && detail[k] !== null && detail[k] !== '')
+    .map((k) => `${k}: ${typeof detail[k] === 'object' ? JSON.stringify(detail[k]) : String(detail[k])}`)
+    .join(' · ');
+}
