@@ -5,7 +5,7 @@ import { DEFAULT_PLAN, PLANS, type PlanId } from '@/lib/plans';
 import { Subscription } from '@/models';
 import { callPayments } from './client';
 import { PAID_PLANS, priceIdForPlan } from './catalog';
-import { syncSubscription } from './sync';
+import { syncInvoice, syncSubscription } from './sync';
 
 /**
  * What an owner can do to the workspace's plan: start a checkout for a paid plan,
@@ -124,6 +124,11 @@ export async function changePlan(actor: WorkspaceActor, plan: PlanId, request: R
   await recordAudit({ action: 'billing.change_requested', actor: actor.user, workspaceId: actor.workspace.id, targetType: 'subscription', targetId: remote.id, detail: { from: row.plan, to: plan }, request });
   // The service's answer is authoritative (not a browser redirect); the webhook that follows changes nothing more.
   await syncSubscription(updated, { actor: actor.user, source: 'owner change', request });
+  // The prorated invoice the change produced, so the page lists it without waiting for its webhook.
+  const invoiceId = typeof updated.latest_invoice === 'string' ? updated.latest_invoice : updated.latest_invoice?.id;
+  if (invoiceId && invoiceId !== (typeof remote.latest_invoice === 'string' ? remote.latest_invoice : remote.latest_invoice?.id)) {
+    await syncInvoice(await callPayments('reading the new invoice', (client) => client.invoices.retrieve(invoiceId)));
+  }
   return Subscription.findOne({ where: { workspaceId: actor.workspace.id } });
 }
 

@@ -39,7 +39,7 @@ export async function usageMeters(workspaceId: number, plan: Plan, period = mont
     workspaceMonthlyAnswers(workspaceId, period),
     countLiveCalculators(workspaceId),
     Membership.count({ where: { workspaceId } }),
-    sequelize.query<{ rows: number | null; bytes: number | null }>('SELECT MAX(row_count) AS rows, MAX(LENGTH(original_csv)) AS bytes FROM datasets WHERE workspace_id = ?', {
+    sequelize.query<{ max_rows: number | null; max_bytes: number | null }>('SELECT MAX(row_count) AS max_rows, MAX(LENGTH(original_csv)) AS max_bytes FROM datasets WHERE workspace_id = ?', {
       replacements: [workspaceId],
       type: QueryTypes.SELECT,
     }),
@@ -49,8 +49,8 @@ export async function usageMeters(workspaceId: number, plan: Plan, period = mont
     { key: 'answers', label: 'Scored answers this month', used: answers, limit: l.answersPerMonth, unit: 'count', note: `all calculators, ${period}` },
     { key: 'calculators', label: 'Published calculators', used: calculators, limit: l.calculators, unit: 'count', note: 'live or disabled, not retired' },
     { key: 'seats', label: 'Seats', used: seats, limit: l.seats, unit: 'count', note: 'people in the workspace' },
-    { key: 'datasetRows', label: 'Rows in the largest dataset', used: Number(largest[0]?.rows ?? 0), limit: l.datasetRows, unit: 'count', note: 'limit applies per upload' },
-    { key: 'uploadBytes', label: 'Largest upload', used: Number(largest[0]?.bytes ?? 0), limit: l.uploadBytes, unit: 'bytes', note: 'limit applies per file' },
+    { key: 'datasetRows', label: 'Rows in the largest dataset', used: Number(largest[0]?.max_rows ?? 0), limit: l.datasetRows, unit: 'count', note: 'limit applies per upload' },
+    { key: 'uploadBytes', label: 'Largest upload', used: Number(largest[0]?.max_bytes ?? 0), limit: l.uploadBytes, unit: 'bytes', note: 'limit applies per file' },
   ];
 }
 

@@ -7,6 +7,8 @@ export const WEBHOOK_ROUTE = '/api/webhooks/payments';
 export const paymentsService = {
   name: 'payments',
   async start({ dataDir, appUrl }: { dataDir: string; appUrl: string }) {
+    // PAYMENTS_FAKE=0: the STRIPE_* variables already point at a real payment service.
+    if (process.env.PAYMENTS_FAKE === '0') return { name: 'payments', env: {}, stop: async () => undefined };
     const fake = await startPaymentsFake({
       port: Number(process.env.PAYMENTS_FAKE_PORT ?? 0),
       // Stable keys across restarts of `npm start`, so the records in the state file stay usable.
