@@ -6,7 +6,8 @@ import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { signIn } from 'next-auth/react';
 import { signInSchema, type SignInInput } from '@/lib/accounts/schemas';
-import { Field, FormBanner, safeReturnPath } from './form-kit';
+import { safeReturnPath } from '@/lib/accounts/return-path';
+import { Field, FormBanner } from './form-kit';
 
 /** next-auth's error strings, in our words. */
 function explain(error: string, email: string): React.ReactNode {

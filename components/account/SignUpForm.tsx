@@ -30,7 +30,7 @@ export function SignUpForm() {
       <Field label="Your name" autoComplete="name" error={errors.name?.message} {...register('name')} />
       <Field label="E-mail" type="email" autoComplete="email" error={errors.email?.message} {...register('email')} />
       <Field label="Password" type="password" autoComplete="new-password" hint={`At least ${PASSWORD_MIN} characters.`} error={errors.password?.message} {...register('password')} />
-      <Field label="Workspace name" placeholder="e.g. Riverside Cycling Club" hint="Your team's space for datasets and calculators. You can rename it later." error={errors.workspaceName?.message} {...register('workspaceName')} />
+      <Field label="Workspace name" placeholder="e.g. Riverside Cycling Club" hint="Your team's space for datasets, fits and calculators." error={errors.workspaceName?.message} {...register('workspaceName')} />
       <button type="submit" className="pw-button w-full" disabled={isSubmitting}>
         {isSubmitting ? 'Creating your account…' : 'Create account'}
       </button>

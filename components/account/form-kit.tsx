@@ -66,9 +66,3 @@ export function Field({ label, error, hint, name, id, ref, ...input }: FieldProp
     </div>
   );
 }
-
-/** Only same-site paths may be a post-sign-in destination. */
-export function safeReturnPath(value: string | null | undefined, fallback = '/studio'): string {
-  if (!value || !value.startsWith('/') || value.startsWith('//') || value.startsWith('/\\')) return fallback;
-  return value;
-}

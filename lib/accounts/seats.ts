@@ -21,5 +21,6 @@ export async function seatsTaken(workspaceId: number, opts: { exceptInvitationId
 
 export function seatLimitError(plan: Plan): AppError {
   const n = plan.limits.seats;
-  return new AppError('plan_limit', `The ${plan.name} plan includes ${n} seat${n === 1 ? '' : 's'} (owners included), and all are taken or held by open invitations. Move to a larger plan, or remove a member or invitation first.`);
+  const state = n === 1 ? 'it is taken' : 'all are taken or held by open invitations';
+  return new AppError('plan_limit', `The ${plan.name} plan includes ${n} seat${n === 1 ? '' : 's'} (owners included), and ${state}. Move to a larger plan, or remove a member or invitation first.`);
 }

@@ -3,7 +3,7 @@ import Link from 'next/link';
 import { redirect } from 'next/navigation';
 import { AuthPanel } from '@/components/account/AuthPanel';
 import { SignInForm } from '@/components/account/SignInForm';
-import { safeReturnPath } from '@/components/account/form-kit';
+import { safeReturnPath } from '@/lib/accounts/return-path';
 import { pageActor } from '@/lib/auth/page';
 
 export const metadata: Metadata = { title: 'Sign in' };

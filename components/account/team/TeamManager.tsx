@@ -142,7 +142,7 @@ function InviteForm({ onDone, seats }: { onDone: (text: string) => void; seats: 
   return (
     <form onSubmit={onSubmit} noValidate className="mt-6 border-t border-ink/10 pt-5" aria-label="Invite someone">
       <h3 className="font-sans text-base font-bold">Invite someone</h3>
-      {seats.taken >= seats.limit ? <p className="mt-1 text-sm text-saffron-700">All {seats.limit} seat{seats.limit === 1 ? '' : 's'} of the {seats.plan} plan are in use.</p> : null}
+      {seats.taken >= seats.limit ? <p className="mt-1 text-sm text-saffron-700">{seats.limit === 1 ? `The one seat of the ${seats.plan} plan is in use.` : `All ${seats.limit} seats of the ${seats.plan} plan are in use.`}</p> : null}
       {banner ? <div className="mt-3"><FormBanner>{banner}</FormBanner></div> : null}
       <div className="mt-3 grid gap-3 sm:grid-cols-[1fr_10rem_auto] sm:items-start">
         <Field label="E-mail" type="email" placeholder="colleague@example.org" error={formState.errors.email?.message} {...register('email')} />
