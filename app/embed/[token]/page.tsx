@@ -1,0 +1,33 @@
+import type { Metadata } from 'next';
+import { notFound } from 'next/navigation';
+import { Calculator } from '@/components/embed/Calculator';
+import { CalculatorFrame, CalculatorUnavailable } from '@/components/embed/CalculatorFrame';
+import { loadCalculatorView } from '@/lib/embeds/calculator-page';
+
+/**
+ * The public calculator for one token (what host pages frame). Its CSP frame-ancestors
+ * header comes from proxy.ts; the status is read fresh on every request.
+ */
+export const dynamic = 'force-dynamic';
+
+type Props = { params: Promise<{ token: string }>; searchParams: Promise<Record<string, string | string[] | undefined>> };
+
+export async function generateMetadata({ params }: Props): Promise<Metadata> {
+  const { token } = await params;
+  const view = await loadCalculatorView(token, undefined);
+  return { title: view.state === 'ready' ? view.props.title : 'Calculator' };
+}
+
+export default async function CalculatorPage({ params, searchParams }: Props) {
+  const { token } = await params;
+  const host = (await searchParams).host;
+  const view = await loadCalculatorView(token, typeof host === 'string' ? host : undefined);
+  if (view.state === 'missing') notFound();
+  if (view.state === 'unavailable') return <CalculatorUnavailable theme={view.theme} />;
+  const { props } = view;
+  return (
+    <CalculatorFrame theme={props.theme} accent={props.accent} accentText={props.accentText}>
+      <Calculator {...props} />
+    </CalculatorFrame>
+  );
+}

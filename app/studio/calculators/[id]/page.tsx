@@ -1,0 +1,82 @@
+import type { Metadata } from 'next';
+import { headers } from 'next/headers';
+import { notFound } from 'next/navigation';
+import { pageWorkspace } from '@/lib/auth/page';
+import { AppError } from '@/lib/errors';
+import { calculatorDetail, type CalculatorDetail } from '@/lib/embeds/studio-queries';
+import { SettingsForm } from '@/components/calculators/SettingsForm';
+import { SnippetBox } from '@/components/calculators/SnippetBox';
+import { StatusPill } from '@/components/calculators/StatusPill';
+import { TokenActions } from '@/components/calculators/TokenActions';
+import { VersionList } from '@/components/calculators/VersionList';
+import { Section, StudioPage } from '@/components/studio/StudioPage';
+
+export const metadata: Metadata = { title: 'Calculator' };
+export const dynamic = 'force-dynamic';
+
+/** Where host pages reach the app: the configured public URL, else this request's host. */
+async function appOrigin(): Promise<string> {
+  if (process.env.NEXTAUTH_URL) return new URL(process.env.NEXTAUTH_URL).origin;
+  const h = await headers();
+  return `${h.get('x-forwarded-proto') ?? 'http'}://${h.get('host') ?? 'localhost:3000'}`;
+}
+
+const escapeAttr = (s: string) => s.replace(/&/g, '&amp;').replace(/"/g, '&quot;').replace(/</g, '&lt;');
+
+export default async function CalculatorPage({ params }: { params: Promise<{ id: string }> }) {
+  const { id } = await params;
+  const actor = await pageWorkspace('member', `/studio/calculators/${id}`);
+  let detail: CalculatorDetail;
+  try {
+    detail = await calculatorDetail(actor.workspace.id, Number(id) || 0);
+  } catch (e) {
+    if (e instanceof AppError && e.code === 'not_found') notFound();
+    throw e;
+  }
+  const { embed, versions, models, answersThisMonth } = detail;
+  const origin = await appOrigin();
+  const title = escapeAttr(embed.title);
+  const loaderSnippet = `<div data-partwise-calculator="${embed.token}" data-partwise-title="${title}"></div>\n<script src="${origin}/embed.js" async></script>`;
+  const iframeSnippet = `<iframe src="${origin}/embed/${embed.token}" title="${title}"\n  style="width:100%;height:640px;border:0" loading="lazy"></iframe>`;
+  const retired = embed.status === 'retired';
+
+  return (
+    <StudioPage
+      trail={[{ href: '/studio/calculators', label: 'Calculators' }]}
+      title={embed.title}
+      lead={
+        <span className="inline-flex flex-wrap items-center gap-3">
+          <StatusPill status={embed.status} />
+          <span>{answersThisMonth.toLocaleString('en')} answers this month</span>
+          {embed.status === 'disabled' && embed.disabledReason && <span>Support&rsquo;s reason: {embed.disabledReason}</span>}
+        </span>
+      }
+    >
+      <div className="grid gap-8 lg:grid-cols-[minmax(0,1fr)_minmax(0,26rem)]">
+        <div className="space-y-8">
+          <Section title="Put it on your website" id="snippet" lead="Paste one of these where the calculator should appear. The page must be on one of the allowed websites below.">
+            <div className="space-y-4">
+              <SnippetBox label="With the loader (sizes itself)" code={loaderSnippet} />
+              <SnippetBox label="Plain iframe" code={iframeSnippet} />
+              <p className="text-sm text-ink-soft">
+                Address: <a className="font-mono text-moss-700 underline" href={`/embed/${embed.token}`} target="_blank" rel="noreferrer">{`${origin}/embed/${embed.token}`}</a>
+              </p>
+            </div>
+          </Section>
+          <Section title="Settings" id="settings">
+            <SettingsForm embedId={embed.id} disabled={retired} initial={{ title: embed.title, allowedOrigins: embed.allowedOrigins, theme: embed.theme, accentColor: embed.accentColor, typicalityThreshold: embed.typicalityThreshold }} />
+          </Section>
+          <Section title="Versions" id="versions">
+            <VersionList embedId={embed.id} versions={versions} activeVersionId={embed.activeVersionId} models={models} currentModelId={embed.mixtureModelId} disabled={retired} />
+          </Section>
+          <Section title="Address and retirement" id="token">
+            <TokenActions embedId={embed.id} retired={retired} />
+          </Section>
+        </div>
+        <Section title="Live preview" id="preview" lead="Exactly what visitors see, served from the current version.">
+          <iframe key={`${embed.token}-${embed.activeVersionId}-${embed.theme}-${embed.accentColor}`} src={`/embed/${embed.token}`} title={`Preview of ${embed.title}`} className="h-[44rem] w-full rounded-lg border border-ink/10" />
+        </Section>
+      </div>
+    </StudioPage>
+  );
+}

@@ -1,0 +1,81 @@
+'use client';
+import { useRouter } from 'next/navigation';
+import { useState } from 'react';
+import { ErrorNote } from '@/components/studio/StudioPage';
+import { callApi, type ApiFailure } from './api';
+
+interface Version {
+  id: number;
+  number: number;
+  modelName: string;
+  checksum: string;
+  createdAt: string;
+}
+
+/** Published versions, newest first: which one is served, switch to another, publish again. */
+export function VersionList({ embedId, versions, activeVersionId, models, currentModelId, disabled }: { embedId: number; versions: Version[]; activeVersionId: number | null; models: { id: number; name: string }[]; currentModelId: number | null; disabled: boolean }) {
+  const router = useRouter();
+  const [error, setError] = useState<ApiFailure | null>(null);
+  const [busy, setBusy] = useState(false);
+  const [modelId, setModelId] = useState<number>(currentModelId ?? models[0]?.id ?? 0);
+
+  async function run(url: string, method: string, body: unknown) {
+    setBusy(true);
+    setError(null);
+    const result = await callApi(url, method, body);
+    setBusy(false);
+    if (!result.ok) return setError(result.error);
+    router.refresh();
+  }
+
+  return (
+    <div className="space-y-4">
+      <table className="w-full text-left text-sm">
+        <caption className="sr-only">Published versions</caption>
+        <thead className="border-b border-ink/10 text-ink-soft">
+          <tr>
+            <th className="py-2 pr-3 font-bold">Version</th>
+            <th className="py-2 pr-3 font-bold">From model</th>
+            <th className="py-2 pr-3 font-bold">Published</th>
+            <th className="hidden py-2 pr-3 font-bold md:table-cell">Checksum</th>
+            <th className="py-2 font-bold"><span className="sr-only">Action</span></th>
+          </tr>
+        </thead>
+        <tbody>
+          {versions.map((v) => (
+            <tr key={v.id} className="border-b border-ink/5">
+              <td className="py-2 pr-3 font-bold">v{v.number}</td>
+              <td className="py-2 pr-3">{v.modelName}</td>
+              <td className="py-2 pr-3 text-ink-soft">{new Date(v.createdAt).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' })}</td>
+              <td className="hidden py-2 pr-3 font-mono text-xs text-ink-faint md:table-cell" title={v.checksum}>{v.checksum.slice(0, 12)}…</td>
+              <td className="py-2 text-right">
+                {v.id === activeVersionId ? (
+                  <span className="rounded-full bg-moss-100 px-3 py-1 text-xs font-bold text-moss-700">Served</span>
+                ) : (
+                  <button type="button" className="pw-button-quiet" disabled={busy || disabled} onClick={() => run(`/api/embeds/${embedId}/active-version`, 'PUT', { versionId: v.id })}>
+                    Serve v{v.number}
+                  </button>
+                )}
+              </td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+      <div className="flex flex-wrap items-end gap-3">
+        <div className="min-w-[12rem] flex-1">
+          <label htmlFor="again-model" className="pw-label">Publish a new version from</label>
+          <select id="again-model" className="pw-input" value={modelId} onChange={(e) => setModelId(Number(e.target.value))} disabled={disabled}>
+            {models.map((m) => (
+              <option key={m.id} value={m.id}>{m.name}</option>
+            ))}
+          </select>
+        </div>
+        <button type="button" className="pw-button" disabled={busy || disabled || !modelId} onClick={() => run(`/api/embeds/${embedId}/versions`, 'POST', { mixtureModelId: modelId })}>
+          Publish new version
+        </button>
+      </div>
+      <p className="text-sm text-ink-soft">Versions never change once published: edits to a model reach visitors only when you publish again. The token stays the same.</p>
+      {error && <ErrorNote message={error.message} issues={error.issues} />}
+    </div>
+  );
+}

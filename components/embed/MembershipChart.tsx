@@ -1,0 +1,61 @@
+'use client';
+import { useEffect, useRef, useState } from 'react';
+
+export interface MembershipRow {
+  label: string;
+  probability: number;
+  color: string;
+}
+
+/** Start fetching vega's runtime before the first answer arrives (on first interaction). */
+let vegaModule: Promise<typeof import('vega')> | null = null;
+export function preloadChart() {
+  vegaModule ??= import('vega');
+  return vegaModule;
+}
+
+const percent = (p: number) => (p >= 0.995 ? '> 99 %' : p < 0.005 ? '< 1 %' : `${Math.round(p * 100)} %`);
+
+/**
+ * The horizontal bar chart of membership probabilities, drawn by vega from the spec the
+ * server compiled from vega-lite. The same numbers are also a plain list, which is what
+ * screen readers get (the SVG is hidden from them), shown to everyone if vega fails.
+ */
+export function MembershipChart({ spec, rows }: { spec: object; rows: MembershipRow[] }) {
+  const container = useRef<HTMLDivElement>(null);
+  const [failed, setFailed] = useState(false);
+
+  useEffect(() => {
+    let view: import('vega').View | null = null;
+    let cancelled = false;
+    preloadChart()
+      .then(async (vega) => {
+        if (cancelled || !container.current) return;
+        view = new vega.View(vega.parse(spec as import('vega').Spec), { renderer: 'svg', container: container.current, hover: false });
+        view.data('memberships', rows.map((r) => ({ label: r.label, probability: r.probability })));
+        await view.runAsync();
+        container.current?.setAttribute('data-chart-ready', 'true');
+      })
+      .catch(() => setFailed(true));
+    return () => {
+      cancelled = true;
+      view?.finalize();
+    };
+  }, [spec, rows]);
+
+  return (
+    <div>
+      <div ref={container} aria-hidden="true" className="w-full min-h-[2rem]" data-testid="membership-chart" />
+      {failed && <p className="text-sm text-ink-soft dark:text-[#a9b0bf]">The chart could not be drawn; the numbers are below.</p>}
+      <ul className={failed ? 'mt-2 grid gap-1 text-sm' : 'sr-only'} aria-label="Membership probability per group">
+        {rows.map((r) => (
+          <li key={r.label} className="flex items-center gap-2">
+            <span aria-hidden="true" className="inline-block h-3 w-3 shrink-0 rounded-sm" style={{ backgroundColor: r.color }} />
+            <span className="min-w-0 flex-1 break-words">{r.label}</span>
+            <span className="font-bold tabular-nums">{percent(r.probability)}</span>
+          </li>
+        ))}
+      </ul>
+    </div>
+  );
+}

@@ -1,0 +1,70 @@
+import 'server-only';
+import { AppError } from '@/lib/errors';
+import { isServing, loadServedEmbed, loadServedVersion } from '@/lib/scoring/served';
+import { membershipChartSpec } from './chart-spec';
+import { normalizeOrigin } from './origins';
+
+/** Everything the calculator page renders, or why it cannot. */
+export type CalculatorView =
+  | { state: 'missing' }
+  | { state: 'unavailable'; theme: 'light' | 'dark' }
+  | { state: 'ready'; props: CalculatorProps };
+
+export interface CalculatorProps {
+  token: string;
+  title: string;
+  fields: { feature: string; label: string; unit: string; min: number; max: number; help: string }[];
+  clusters: { label: string; description: string; color: string }[];
+  caution: string;
+  theme: 'light' | 'dark';
+  accent: string;
+  accentText: string;
+  threshold: number;
+  /** The host page's origin, when it is one of the embed's allowed origins: size messages go only there. */
+  hostOrigin: string | null;
+  chartSpec: object;
+}
+
+/** Readable text on the accent colour: ink or white, by relative luminance. */
+export function textOn(hex: string): string {
+  const n = Number.parseInt(hex.slice(1), 16);
+  const channel = (c: number) => {
+    const s = c / 255;
+    return s <= 0.03928 ? s / 12.92 : ((s + 0.055) / 1.055) ** 2.4;
+  };
+  const l = 0.2126 * channel((n >> 16) & 255) + 0.7152 * channel((n >> 8) & 255) + 0.0722 * channel(n & 255);
+  return l > 0.4 ? '#1d2330' : '#ffffff';
+}
+
+export async function loadCalculatorView(token: string, host: string | undefined): Promise<CalculatorView> {
+  const embed = await loadServedEmbed(token);
+  if (!embed) return { state: 'missing' };
+  if (!isServing(embed)) return { state: 'unavailable', theme: embed.theme };
+  let version;
+  try {
+    version = await loadServedVersion(embed.activeVersionId!);
+  } catch (e) {
+    if (e instanceof AppError) return { state: 'unavailable', theme: embed.theme };
+    throw e;
+  }
+  const requestedHost = host ? normalizeOrigin(host) : null;
+  const hostOrigin = requestedHost && embed.allowedOrigins.includes(requestedHost) ? requestedHost : null;
+  const accent = /^#[0-9a-fA-F]{6}$/.test(embed.accentColor) ? embed.accentColor : '#2f6f5e';
+  const { fields, clusters, caution } = version.payload;
+  return {
+    state: 'ready',
+    props: {
+      token: embed.token,
+      title: embed.title,
+      fields: fields.map((f) => ({ feature: f.feature, label: f.label, unit: f.unit, min: f.min, max: f.max, help: f.help })),
+      clusters: clusters.map((c) => ({ label: c.label, description: c.description, color: c.color })),
+      caution,
+      theme: embed.theme,
+      accent,
+      accentText: textOn(accent),
+      threshold: embed.typicalityThreshold,
+      hostOrigin,
+      chartSpec: membershipChartSpec(clusters, embed.theme),
+    },
+  };
+}
