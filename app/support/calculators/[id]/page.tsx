@@ -142,6 +142,7 @@ export default async function SupportCalculatorPage({ params }: Props) {
           <div className="pw-card p-6">
             {c.status === 'active' ? (
               <ReasonForm
+                key="disable"
                 url={`/api/support/calculators/${c.id}/disable`}
                 title="Switch this calculator off"
                 explain="Visitors then see a neutral “not available” notice and no new answers are scored. The owner is e-mailed your reason. Nothing is deleted."
@@ -153,6 +154,7 @@ export default async function SupportCalculatorPage({ params }: Props) {
               />
             ) : c.status === 'disabled' ? (
               <ReasonForm
+                key="enable"
                 url={`/api/support/calculators/${c.id}/enable`}
                 title="Switch it back on"
                 explain="Visitors can use it again at once. The owner is e-mailed your note."
@@ -168,6 +170,7 @@ export default async function SupportCalculatorPage({ params }: Props) {
           <div className="pw-card p-6">
             {c.workspace.suspendedAt ? (
               <ReasonForm
+                key="restore"
                 url={`/api/support/workspaces/${c.workspace.id}/restore`}
                 title={`Lift the suspension of ${c.workspace.name}`}
                 explain="Its calculators answer again, except those switched off one by one."
@@ -178,6 +181,7 @@ export default async function SupportCalculatorPage({ params }: Props) {
               />
             ) : (
               <ReasonForm
+                key="suspend"
                 url={`/api/support/workspaces/${c.workspace.id}/suspend`}
                 title={`Suspend all of ${c.workspace.name}`}
                 explain="Every calculator of this workspace stops answering at once. Use it for a workspace-wide problem; the owners are e-mailed."
