@@ -40,7 +40,7 @@ export function ClusterScatter({ data, labels, colors, xTitle, yTitle }: { data:
           y: { field: 'y', type: 'quantitative' },
           detail: { field: 'ring' },
           order: { field: 'order', type: 'quantitative' },
-          color: { ...color, legend: null },
+          color: { field: 'cluster', type: 'nominal', scale: { domain: labels, range: colors } },
           strokeDash: { field: 'sigma', type: 'nominal', title: 'Ellipse', scale: { domain: ['1 sigma', '2 sigma'], range: [[1, 0], [5, 4]] } },
         },
       },

@@ -17,9 +17,11 @@ export function CriterionChart({ candidates, chosen }: { candidates: CriterionPo
       c[criterion] === null ? [] : [{ criterion: criterion.toUpperCase(), components: c.components, structure: c.covariance, value: c[criterion], chosen: c.index === chosen }],
     ),
   );
+  const palette: Record<string, string> = { full: '#2f6f5e', diagonal: '#b7791f', spherical: '#4462c9', tied: '#b34a7d' };
+  const present = Object.keys(palette).filter((s) => candidates.some((c) => c.covariance === s));
   const spec = {
     data: { values },
-    facet: { column: { field: 'criterion', type: 'nominal', title: null, header: { labelFontSize: 13, labelFontWeight: 700, labelColor: '#1d2330' } } },
+    facet: { column: { field: 'criterion', type: 'nominal', title: null, sort: ['BIC', 'AIC'], header: { labelFontSize: 13, labelFontWeight: 700, labelColor: '#1d2330' } } },
     resolve: { scale: { y: 'independent' } },
     spec: {
       width: 300,
@@ -30,7 +32,7 @@ export function CriterionChart({ candidates, chosen }: { candidates: CriterionPo
           encoding: {
             x: { field: 'components', type: 'quantitative', title: 'Components', axis: { tickMinStep: 1, format: 'd' } },
             y: { field: 'value', type: 'quantitative', title: 'Lower is better', scale: { zero: false } },
-            color: { field: 'structure', type: 'nominal', title: 'Covariance', scale: { domain: ['full', 'diagonal', 'spherical', 'tied'], range: ['#2f6f5e', '#b7791f', '#4462c9', '#b34a7d'] } },
+            color: { field: 'structure', type: 'nominal', title: 'Covariance', scale: { domain: present, range: present.map((s) => palette[s]) } },
             tooltip: [
               { field: 'structure', title: 'Covariance' },
               { field: 'components', title: 'Components' },

@@ -1,12 +1,11 @@
 'use client';
 
 import { useRouter } from 'next/navigation';
-import { useState } from 'react';
-import useSWR from 'swr';
+import { useCallback, useEffect, useState } from 'react';
 import { CriterionChart } from '@/components/charts/CriterionChart';
 import type { FitView } from '@/lib/fitting/views';
 import { clusterColor } from '@/lib/fitting/palette';
-import { api, ApiError, fetcher } from './client-api';
+import { api, ApiError } from './client-api';
 import { FitProgressPanel, type ProgressFit } from './FitProgressPanel';
 import { num } from './format';
 import { ReviewPanel } from './ReviewPanel';
@@ -16,18 +15,38 @@ type FitJson = Omit<FitView, 'startedAt' | 'finishedAt' | 'createdAt'> & { start
 
 /** A fit from start to choice: live progress, then the ranked candidates, their review, and keeping one as a model. */
 export function FitWorkbench({ initial, datasetName }: { initial: FitJson; datasetName: string }) {
-  const { data, mutate } = useSWR<{ fit: FitJson }>(`/api/fits/${initial.id}`, fetcher, {
-    fallbackData: { fit: initial },
-    refreshInterval: (d) => (d && (d.fit.status === 'queued' || d.fit.status === 'running') ? 700 : 0),
-  });
-  const fit = data?.fit ?? initial;
+  const [fit, setFit] = useState<FitJson>(initial);
+  const live = fit.status === 'queued' || fit.status === 'running';
+  const refresh = useCallback(async () => {
+    try {
+      const body = await api<{ fit: FitJson }>(`/api/fits/${initial.id}`, { cache: 'no-store' });
+      setFit(body.fit);
+    } catch {
+      // A missed poll is retried on the next tick.
+    }
+  }, [initial.id]);
+  // Poll while the job is queued or running; stop once it has an outcome.
+  useEffect(() => {
+    if (!live) return;
+    let stopped = false;
+    let timer: ReturnType<typeof setTimeout>;
+    const tick = async () => {
+      await refresh();
+      if (!stopped) timer = setTimeout(tick, 700);
+    };
+    timer = setTimeout(tick, 400);
+    return () => {
+      stopped = true;
+      clearTimeout(timer);
+    };
+  }, [live, refresh]);
   const result = fit.result;
   const [chosen, setChosen] = useState(0);
 
   return (
     <>
       <Section title="Progress" id="progress">
-        <FitProgressPanel fit={fit as unknown as ProgressFit} onChange={() => void mutate()} />
+        <FitProgressPanel fit={fit as unknown as ProgressFit} onChange={() => void refresh()} />
       </Section>
       {fit.status === 'succeeded' && result && (
         <>
