@@ -6,7 +6,7 @@
 import { z } from 'zod';
 import { AppError } from '@/lib/errors';
 import { parseWith } from '@/lib/http/handler';
-import { parseModelJson, toModelJson } from '@/lib/mixture';
+import { MixtureError, parseModelJson, toModelJson } from '@/lib/mixture';
 import { Dataset, MixtureModel } from '@/models';
 import type { ClusterLabel, FieldSetting } from '@/models';
 import { findFit } from './jobs';
@@ -35,7 +35,14 @@ export async function createModelFromFit(workspaceId: number, userId: number, in
   if (candidate.rank !== 1 && body.selectionNote === '') {
     throw new AppError('invalid_input', 'This is not the candidate with the lowest BIC; say in a note why you prefer it.', { issues: [{ field: 'selectionNote', message: 'say why you chose this candidate' }] });
   }
-  const engineModel = parseModelJson(candidate.model);
+  let engineModel;
+  try {
+    engineModel = parseModelJson(candidate.model);
+  } catch (e) {
+    // A stored candidate that no longer validates is damaged data, not a server fault: say which part.
+    if (e instanceof MixtureError) throw new AppError('invalid_input', `Candidate ${body.candidate + 1}'s stored model cannot be used: ${e.message}`, { issues: [{ field: 'candidate', message: e.message }] });
+    throw e;
+  }
   engineModel.ranking = result.candidates.map(({ model: _m, trace: _t, ...c }) => c);
   const dataset = await Dataset.findOne({ where: { id: fit.datasetId, workspaceId } });
   const k = engineModel.weights.length;
