@@ -1,0 +1,224 @@
+import fs from 'node:fs';
+import http from 'node:http';
+import path from 'node:path';
+import zlib from 'node:zlib';
+import { spawn, type ChildProcess } from 'node:child_process';
+import autocannon from 'autocannon';
+import { buildIsStale } from './lib/build-state';
+import { run, waitForHttp } from './lib/run';
+
+/**
+ * Calculator benchmark: `npx tsx scripts/bench-embed.ts [--duration 20] [--connections 64] [--port 3290]`
+ *
+ * 1. first-load JavaScript of the calculator page, gzipped (every script Chromium fetches
+ *    until the form is interactive, each body gzipped at level 9), and what the chart adds
+ *    after the first answer;
+ * 2. time until the form is interactive (the page's `partwise:interactive` mark, median of runs);
+ * 3. the scoring route under autocannon next to a bare node:http server answering the
+ *    same JSON, in the same run, and their ratio.
+ * Builds into NEXT_DIST_DIR (default .next-bench) when stale; uses a fresh SQLite file.
+ */
+function arg(name: string, fallback: string): string {
+  const i = process.argv.indexOf(`--${name}`);
+  return i > 0 && process.argv[i + 1] ? process.argv[i + 1] : fallback;
+}
+
+const DURATION = Number(arg('duration', '20'));
+const CONNECTIONS = Number(arg('connections', '64'));
+const PORT = Number(arg('port', '3290'));
+const RUNS = Number(arg('runs', '7'));
+const DIST = process.env.NEXT_DIST_DIR || '.next-bench';
+const DIR = path.resolve('.tmp/bench-embed');
+const APP = `http://127.0.0.1:${PORT}`;
+const VALUES = { avg_speed_kmh: 24.5, weekly_distance_km: 130, climb_per_ride_m: 420 };
+
+async function prepareDatabase(env: NodeJS.ProcessEnv): Promise<string> {
+  await run('npx', ['tsx', 'scripts/migrate.ts', 'up'], { env, stdio: ['ignore', 'ignore', 'inherit'] });
+  Object.assign(process.env, env);
+  const m = await import('@/models');
+  const { buildModel, parseNumericTable, selectMixture, toModelJson } = await import('@/lib/mixture');
+  const { demoRidesCsv } = await import('@/lib/demo/cycling');
+  const { publishNew } = await import('@/lib/embeds/service');
+  const owner = await m.User.create({ email: 'bench@partwise.test', name: 'Bench', passwordHash: 'x', emailVerifiedAt: new Date() });
+  const workspace = await m.Workspace.create({ name: 'Bench', slug: 'bench' });
+  await m.Membership.create({ userId: owner.id, workspaceId: workspace.id, role: 'owner' });
+  await m.Subscription.create({ workspaceId: workspace.id, plan: 'lab', status: 'active' });
+  const features = Object.keys(VALUES);
+  const table = parseNumericTable(demoRidesCsv(5), features);
+  const selection = selectMixture(table.rows, table.n, table.d, { components: [4], covariances: ['full'], seed: 1 });
+  const engine = buildModel(table.rows, table.n, table.d, selection.best, { features: features.map((name) => ({ name })) });
+  const model = await m.MixtureModel.create({
+    workspaceId: workspace.id,
+    createdById: owner.id,
+    name: 'Ride groups',
+    model: JSON.parse(toModelJson(engine)),
+    clusters: ['Easy social', 'Steady club', 'Hill lovers', 'Fast group'].map((label, i) => ({ label, description: `Group ${i + 1} of the club.`, color: ['#3a8a74', '#e0a526', '#b8432f', '#4a5366'][i] })),
+    fields: [
+      { feature: 'avg_speed_kmh', label: 'Average speed', unit: 'km/h', min: 10, max: 45, help: '' },
+      { feature: 'weekly_distance_km', label: 'Weekly distance', unit: 'km', min: 0, max: 500, help: '' },
+      { feature: 'climb_per_ride_m', label: 'Climbing per ride', unit: 'm', min: 0, max: 3000, help: '' },
+    ],
+    caution: 'Benchmark calculator.',
+  });
+  const { embed } = await publishNew({ user: owner, workspace }, { mixtureModelId: model.id, title: 'Which ride group suits you?' });
+  await m.sequelize.close();
+  return embed.token;
+}
+
+async function measurePage(token: string) {
+  const { launchBrowser } = await import('../tests/helpers/browser');
+  const browser = await launchBrowser();
+  const gz = (b: Buffer) => zlib.gzipSync(b, { level: 9 }).length;
+  const firstLoad: { url: string; raw: number; gzip: number }[] = [];
+  const afterAnswer: { url: string; raw: number; gzip: number }[] = [];
+  const times: number[] = [];
+  try {
+    for (let i = 0; i < RUNS; i++) {
+      const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+      const page = await context.newPage();
+      const scripts = new Map<string, Promise<Buffer | null>>();
+      page.on('response', (r) => {
+        if (r.request().resourceType() === 'script') scripts.set(r.url(), r.body().catch(() => null));
+      });
+      await page.goto(`${APP}/embed/${token}`);
+      await page.waitForFunction(() => performance.getEntriesByName('partwise:interactive').length > 0, null, { timeout: 20_000 });
+      times.push(await page.evaluate(() => performance.getEntriesByName('partwise:interactive')[0].startTime));
+      if (i === 0) {
+        const loaded = new Set(scripts.keys());
+        for (const [url, body] of scripts) {
+          const b = await body;
+          if (b) firstLoad.push({ url, raw: b.length, gzip: gz(b) });
+        }
+        await page.getByLabel('Average speed (km/h)').fill(String(VALUES.avg_speed_kmh));
+        await page.getByLabel('Weekly distance (km)').fill(String(VALUES.weekly_distance_km));
+        await page.getByLabel('Climbing per ride (m)').fill(String(VALUES.climb_per_ride_m));
+        await page.getByRole('button', { name: 'Show my groups' }).click();
+        await page.waitForSelector('[data-chart-ready="true"] svg', { timeout: 20_000 });
+        for (const [url, body] of scripts) {
+          if (loaded.has(url)) continue;
+          const b = await body;
+          if (b) afterAnswer.push({ url, raw: b.length, gzip: gz(b) });
+        }
+      }
+      await context.close();
+    }
+  } finally {
+    await browser.close();
+  }
+  return { firstLoad, afterAnswer, times };
+}
+
+interface LoadFigures {
+  rps: number;
+  p50: number;
+  p99: number;
+  errors: number;
+  non2xx: number;
+  total: number;
+}
+
+async function load(url: string, body: string, headers: Record<string, string>): Promise<LoadFigures> {
+  const result = await autocannon({ url, method: 'POST', body, headers, connections: CONNECTIONS, duration: DURATION, pipelining: 1 });
+  return {
+    rps: result.requests.average,
+    p50: result.latency.p50,
+    p99: result.latency.p99,
+    errors: result.errors + result.timeouts,
+    non2xx: result.non2xx,
+    total: result.requests.total,
+  };
+}
+
+function bareServer(answer: string): Promise<http.Server> {
+  return new Promise((resolve) => {
+    const server = http.createServer((req, res) => {
+      let size = 0;
+      req.on('data', (c: Buffer) => (size += c.length));
+      req.on('end', () => {
+        res.writeHead(200, { 'content-type': 'application/json', 'cache-control': 'no-store' });
+        res.end(answer);
+      });
+    });
+    server.listen(0, '127.0.0.1', () => resolve(server));
+  });
+}
+
+const kb = (n: number) => `${(n / 1024).toFixed(1)} kB`;
+
+async function main() {
+  const env: NodeJS.ProcessEnv = { ...process.env, NEXT_DIST_DIR: DIST, NEXT_TELEMETRY_DISABLED: '1' };
+  if (buildIsStale()) {
+    console.log(`[bench] building into ${DIST}…`);
+    await run('npm', ['run', 'build'], { env });
+  }
+  fs.rmSync(DIR, { recursive: true, force: true });
+  fs.mkdirSync(DIR, { recursive: true });
+  const appEnv: NodeJS.ProcessEnv = {
+    ...env,
+    NODE_ENV: 'production',
+    DATABASE_URL: path.join(DIR, 'bench.sqlite'),
+    PARTWISE_DATA_DIR: DIR,
+    NEXTAUTH_URL: APP,
+    NEXTAUTH_SECRET: 'bench-secret-not-for-production',
+    // One loopback client stands for many visitors: lift the per-address and per-token limits.
+    PARTWISE_SCORE_ADDRESS_BURST: '1000000000',
+    PARTWISE_SCORE_TOKEN_BURST: '1000000000',
+    PORT: String(PORT),
+  };
+  const token = await prepareDatabase(appEnv);
+  const log = fs.openSync(path.join(DIR, 'server.log'), 'a');
+  const server: ChildProcess = spawn('npx', ['--no-install', 'next', 'start', '-p', String(PORT), '-H', '127.0.0.1'], { env: appEnv, stdio: ['ignore', log, log], detached: true });
+  let bare: http.Server | undefined;
+  try {
+    await waitForHttp(`${APP}/api/health`, 90_000, server);
+    // Warm the page and the route (first compile of each, version cache).
+    await fetch(`${APP}/embed/${token}`).then((r) => r.text());
+
+    const page = await measurePage(token);
+    const scoreUrl = `${APP}/api/score/${token}`;
+    const body = JSON.stringify({ values: VALUES });
+    const headers = { 'content-type': 'application/json' };
+    const sample = await fetch(scoreUrl, { method: 'POST', headers, body });
+    if (sample.status !== 200) throw new Error(`scoring answered ${sample.status}: ${await sample.text()}`);
+    const answer = await sample.text();
+    for (let i = 0; i < 200; i++) await fetch(scoreUrl, { method: 'POST', headers, body }).then((r) => r.arrayBuffer());
+
+    console.log(`[bench] scoring route: ${CONNECTIONS} connections, ${DURATION} s…`);
+    const route = await load(scoreUrl, body, headers);
+    bare = await bareServer(answer);
+    const bareUrl = `http://127.0.0.1:${(bare.address() as { port: number }).port}/`;
+    console.log(`[bench] bare node:http with the same JSON: ${CONNECTIONS} connections, ${DURATION} s…`);
+    const baseline = await load(bareUrl, body, headers);
+
+    const firstGzip = page.firstLoad.reduce((s, f) => s + f.gzip, 0);
+    const firstRaw = page.firstLoad.reduce((s, f) => s + f.raw, 0);
+    const chartGzip = page.afterAnswer.reduce((s, f) => s + f.gzip, 0);
+    const sorted = [...page.times].sort((a, b) => a - b);
+    const median = sorted[Math.floor(sorted.length / 2)];
+    console.log('\n== calculator page ==');
+    console.log(`first-load JS: ${page.firstLoad.length} scripts, ${kb(firstRaw)} raw, ${kb(firstGzip)} gzipped (target ≤ 250 kB)`);
+    for (const f of page.firstLoad.sort((a, b) => b.gzip - a.gzip)) console.log(`  ${kb(f.gzip).padStart(9)}  ${f.url.replace(APP, '')}`);
+    console.log(`chart runtime loaded with the first answer: ${page.afterAnswer.length} scripts, ${kb(chartGzip)} gzipped`);
+    console.log(`time to interactive form: median ${median.toFixed(0)} ms, best ${sorted[0].toFixed(0)} ms, worst ${sorted[sorted.length - 1].toFixed(0)} ms over ${sorted.length} loads (target < 1000 ms)`);
+    console.log('\n== scoring route vs bare node:http ==');
+    const row = (name: string, f: LoadFigures) => console.log(`${name.padEnd(22)} ${f.rps.toFixed(0).padStart(7)} req/s   p50 ${String(f.p50).padStart(4)} ms   p99 ${String(f.p99).padStart(4)} ms   errors ${f.errors}   non-2xx ${f.non2xx}   total ${f.total}`);
+    row('POST /api/score/TOKEN', route);
+    row('bare node:http', baseline);
+    console.log(`ratio (route / bare): ${(route.rps / baseline.rps).toFixed(2)}× (target ≥ 0.5×, p99 < 20 ms, 0 errors)`);
+  } finally {
+    bare?.close();
+    if (server.pid) {
+      try {
+        process.kill(-server.pid, 'SIGTERM');
+      } catch {}
+    }
+  }
+}
+
+main().then(
+  () => process.exit(0),
+  (e) => {
+    console.error('[bench] failed:', e);
+    process.exit(1);
+  },
+);
