@@ -30,6 +30,29 @@ export const ACTION_LABELS: Record<string, string> = {
   'embed.retire': 'Retired',
   'embed.activate_version': 'Served version changed',
   'embed.origins': 'Allowed sites changed',
+  'auth.signin': 'Signed in',
+  'auth.signin_failed': 'Sign-in failed',
+  'account.signed_up': 'Account created',
+  'account.email_verified': 'E-mail verified',
+  'account.password_reset_requested': 'Password reset asked for',
+  'account.password_reset': 'Password reset',
+  'workspace.created': 'Workspace created',
+  'team.invited': 'Person invited',
+  'team.invitation_accepted': 'Invitation accepted',
+  'team.invitation_revoked': 'Invitation withdrawn',
+  'team.role_changed': 'Role changed',
+  'team.member_removed': 'Person removed',
+  'dataset.upload': 'Dataset uploaded',
+  'dataset.delete': 'Dataset deleted',
+  'model.create': 'Model saved',
+  'billing.checkout_started': 'Checkout started',
+  'billing.plan_changed': 'Plan changed',
+  'billing.change_requested': 'Plan change asked for',
+  'billing.cancel_requested': 'Cancellation asked for',
+  'billing.resume_requested': 'Cancellation withdrawn',
+  'billing.subscription_replaced': 'Subscription replaced',
+  'billing.subscription_replace_failed': 'Subscription replacement failed',
+  'billing.webhook_processed': 'Payment webhook processed',
 };
 
 export function actionLabel(action: string): string {
@@ -38,7 +61,7 @@ export function actionLabel(action: string): string {
 
 /** The few detail fields worth a line in a trail, as "key: value" text. */
 export function detailSummary(detail: Record<string, unknown>): string {
-  const keys = ['reason', 'note', 'previousReason', 'version', 'lastHour', 'usualPerHour', 'closedReports', 'calculators', 'plan', 'role', 'email', 'type'];
+  const keys = ['reason', 'note', 'previousReason', 'title', 'version', 'lastHour', 'usualPerHour', 'closedReports', 'calculators', 'plan', 'from', 'to', 'role', 'email', 'type', 'eventType'];
   return keys
     .filter((k) => detail[k] !== undefined && detail[k] !== null && detail[k] !== '')
     .map((k) => `${k}: ${typeof detail[k] === 'object' ? JSON.stringify(detail[k]) : String(detail[k])}`)
