@@ -309,6 +309,8 @@ export class PaymentsState {
       request: { id: null, idempotency_key: idempotencyKey },
     };
     this.events.push(event);
+    // A long `npm start` keeps only recent events (replays need them; nothing older matters).
+    if (this.events.length > 2000) this.events.splice(0, this.events.length - 2000);
     this.onEvent(event);
     return event;
   }

@@ -1,4 +1,7 @@
+import fs from 'node:fs';
 import http from 'node:http';
+import os from 'node:os';
+import path from 'node:path';
 import type { AddressInfo } from 'node:net';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import Stripe from 'stripe';
@@ -26,6 +29,23 @@ describe('form decoding as the SDK encodes', () => {
     const jan31 = Date.UTC(2027, 0, 31) / 1000;
     expect(new Date(addMonth(jan31) * 1000).toISOString().slice(0, 10)).toBe('2027-02-28');
     expect(new Date(addMonth(Date.UTC(2027, 11, 15) / 1000) * 1000).toISOString().slice(0, 10)).toBe('2028-01-15');
+  });
+});
+
+describe('the fake across restarts', () => {
+  it('keeps customers, prices and subscriptions in its state file', async () => {
+    const stateFile = path.join(os.tmpdir(), `payments-fake-${process.pid}-${Date.now()}.json`);
+    const first = await startPaymentsFake({ stateFile, secretKey: 'sk_test_restart' });
+    const client = new Stripe('sk_test_restart', { host: first.host, port: first.port, protocol: 'http', maxNetworkRetries: 0 });
+    const customer = await client.customers.create({ email: 'kept@club.test' });
+    const price = await client.prices.create({ currency: 'eur', unit_amount: 500, recurring: { interval: 'month' }, product_data: { name: 'Kept' }, lookup_key: 'kept' });
+    await first.stop();
+    const second = await startPaymentsFake({ stateFile, secretKey: 'sk_test_restart' });
+    const again = new Stripe('sk_test_restart', { host: second.host, port: second.port, protocol: 'http', maxNetworkRetries: 0 });
+    expect((await again.customers.retrieve(customer.id)) as { email: string }).toMatchObject({ email: 'kept@club.test' });
+    expect((await again.prices.list({ lookup_keys: ['kept'] })).data[0].id).toBe(price.id);
+    await second.stop();
+    fs.rmSync(stateFile, { force: true });
   });
 });
 
