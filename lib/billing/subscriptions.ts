@@ -151,3 +151,14 @@ async function setCancel(actor: WorkspaceActor, cancel: boolean, request: Reques
   await syncSubscription(updated, { actor: actor.user, source: cancel ? 'owner cancel' : 'owner resume', request });
   return Subscription.findOne({ where: { workspaceId: actor.workspace.id } });
 }
+
+/** A link to the payment service's self-service page (change the card, end or keep the subscription). */
+export async function openSelfService(actor: WorkspaceActor, request: Request): Promise<{ url: string }> {
+  const row = await subscriptionRow(actor.workspace.id);
+  if (!row.customerRef) throw new AppError('conflict', 'There is no card on file yet: it is added with the first checkout.');
+  const session = await callPayments('opening the payment settings', (client) =>
+    client.billingPortal.sessions.create({ customer: row.customerRef!, return_url: `${appBaseUrl(request)}/studio/billing` }),
+  );
+  await recordAudit({ action: 'billing.self_service_opened', actor: actor.user, workspaceId: actor.workspace.id, targetType: 'customer', targetId: row.customerRef, request });
+  return { url: session.url };
+}

@@ -106,5 +106,13 @@ describe('billing in the browser', () => {
 
     await page.locator('[data-plan="lab"] button', { hasText: 'Keep Lab' }).click();
     await page.getByText(/Renews on/).waitFor({ timeout: 15_000 });
+
+    // The payment service's own page for the card on file, and back.
+    await page.getByRole('button', { name: 'Card and payment settings' }).click();
+    await page.waitForURL((u) => u.toString().startsWith(`${fakeUrl}/portal/`));
+    expect(await page.getByText('Visa ending in 4242').count()).toBe(1);
+    await screenshot(page, 'billing-9-self-service');
+    await page.getByRole('link', { name: /Return to Partwise/ }).click();
+    await page.waitForURL((u) => u.pathname === '/studio/billing');
   });
 });

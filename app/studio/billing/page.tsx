@@ -7,6 +7,7 @@ import { Section, StudioPage } from '@/components/studio/StudioPage';
 import { InvoiceTable } from '@/components/billing/InvoiceTable';
 import { OwnerOnly } from '@/components/billing/OwnerOnly';
 import { PlanChooser } from '@/components/billing/PlanChooser';
+import { SelfServiceButton } from '@/components/billing/SelfServiceButton';
 import { UsageMeters } from '@/components/billing/UsageMeters';
 import { day, euros } from '@/components/billing/format';
 
@@ -66,6 +67,7 @@ export default async function BillingPage({ searchParams }: { searchParams: Prom
               </p>
             )}
           </div>
+          {sub.paid && <SelfServiceButton />}
         </div>
       </Section>
 

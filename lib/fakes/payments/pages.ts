@@ -1,4 +1,4 @@
-import type { CheckoutSession, Invoice, Price } from './state';
+import type { CheckoutSession, Invoice, PaymentMethod, PortalSession, Price, Subscription } from './state';
 
 /**
  * HTML pages the fake serves to people: the hosted checkout card form and a plain
@@ -92,4 +92,43 @@ export function invoicePage(invoice: Invoice, merchant: string): string {
 
 export function notFoundPage(what: string): string {
   return page('Not found', `<main style="grid-template-columns:1fr"><section class="panel"><h1>No such ${esc(what)}.</h1></section></main>`);
+}
+
+export interface PortalViewInput {
+  session: PortalSession;
+  merchant: string;
+  card: PaymentMethod | null;
+  subscriptions: { sub: Subscription; productName: string }[];
+  notice?: { kind: 'ok' | 'error'; text: string };
+}
+
+export function portalView(v: PortalViewInput): string {
+  const date = (s: number) => new Date(s * 1000).toISOString().slice(0, 10);
+  const subs = v.subscriptions
+    .map(({ sub, productName }) => {
+      const price = sub.items.data[0]?.price;
+      const action = sub.cancel_at_period_end ? 'resume' : 'cancel';
+      return `<tr><td><b>${esc(productName)}</b><br><span class="muted">${price ? euros(price.unit_amount) : ''} a month · ${sub.cancel_at_period_end ? `ends ${date(sub.current_period_end)}` : `renews ${date(sub.current_period_end)}`}</span></td>
+      <td class="n"><form method="post" action="/portal/${esc(v.session.id)}/${action}"><input type="hidden" name="subscription" value="${esc(sub.id)}"><button type="submit" style="margin:0;width:auto;padding:8px 14px;${action === 'cancel' ? 'background:#fff;color:#8a2318;border:1px solid #e2a39b' : ''}">${action === 'cancel' ? 'End at period end' : 'Keep subscription'}</button></form></td></tr>`;
+    })
+    .join('');
+  const body = `<main>
+  <section class="panel" aria-label="Subscriptions">
+    <h2>${esc(v.merchant)}</h2><h1>Your subscription</h1>
+    ${v.notice ? `<div class="${v.notice.kind === 'error' ? 'error' : 'hint'}" role="${v.notice.kind === 'error' ? 'alert' : 'status'}">${esc(v.notice.text)}</div>` : ''}
+    <table>${subs || '<tr><td class="muted">No active subscription.</td></tr>'}</table>
+    ${v.session.return_url ? `<p style="margin-top:18px"><a href="${esc(v.session.return_url)}">← Return to ${esc(v.merchant)}</a></p>` : ''}
+  </section>
+  <section class="panel" aria-label="Card">
+    <h2>Card on file</h2>
+    <p>${v.card ? `Visa ending in <b>${esc(v.card.card.last4)}</b>, expires ${String(v.card.card.exp_month).padStart(2, '0')}/${v.card.card.exp_year}` : 'No card on file.'}</p>
+    <form method="post" action="/portal/${esc(v.session.id)}/card" novalidate>
+      <label for="number">New card number</label><input id="number" name="number" inputmode="numeric" autocomplete="cc-number" placeholder="1234 1234 1234 1234">
+      <div class="row"><div><label for="expiry">Expiry (MM / YY)</label><input id="expiry" name="expiry" placeholder="MM / YY"></div><div><label for="cvc">Security code</label><input id="cvc" name="cvc" inputmode="numeric" placeholder="123"></div></div>
+      <button type="submit">Save this card</button>
+    </form>
+    <div class="hint">Test cards: <code>4242 4242 4242 4242</code> is accepted, <code>4000 0000 0000 0002</code> is declined.</div>
+  </section>
+</main>`;
+  return page(`${v.merchant} — your subscription`, body);
 }

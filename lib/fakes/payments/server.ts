@@ -2,7 +2,7 @@ import http from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { randomBytes } from 'node:crypto';
 import { bool, list, obj, parseForm, str, stringMap, type FormObject } from './form';
-import { checkoutPage, closedCheckoutPage, invoicePage, notFoundPage } from './pages';
+import { checkoutPage, closedCheckoutPage, invoicePage, notFoundPage, portalView } from './pages';
 import { FakeApiError, PaymentsState, type ApiEvent } from './state';
 import { WebhookSender, type DeliveryRecord } from './webhooks';
 
@@ -184,6 +184,8 @@ export async function startPaymentsFake(opts: PaymentsFakeOptions = {}): Promise
 
     if (a === 'events' && b && method === 'GET') return state.event(b);
 
+    if (a === 'billing_portal' && b === 'sessions' && !c && method === 'POST') return state.createPortalSession(str(params.customer), str(params.return_url));
+
     void idempotencyKey;
     throw new FakeApiError(404, 'invalid_request_error', `Unrecognized request URL (${method}: ${path}). This local fake implements only the calls Partwise makes.`);
   }
@@ -266,12 +268,48 @@ export async function startPaymentsFake(opts: PaymentsFakeOptions = {}): Promise
     }
   }
 
+  /** The self-service page: card on file, replace it, end or keep the subscription. */
+  async function portalPage(req: http.IncomingMessage, res: http.ServerResponse, url: URL) {
+    const [, id, action] = url.pathname.split('/').filter(Boolean);
+    let session;
+    try {
+      session = state.portalSession(id ?? '');
+    } catch {
+      return sendHtml(res, 404, notFoundPage('self-service link (they last an hour)'));
+    }
+    const subs = [...state.subscriptions.values()].filter((s) => s.customer === session.customer && s.status !== 'canceled');
+    const view = (notice?: { kind: 'ok' | 'error'; text: string }) =>
+      portalView({ session, merchant, card: state.defaultCard(session.customer), subscriptions: subs.map((s) => ({ sub: s, productName: state.products.get(s.items.data[0]?.price.product ?? '')?.name ?? 'Plan' })), notice });
+    if (req.method === 'GET') return sendHtml(res, 200, view());
+    if (req.method !== 'POST') return sendHtml(res, 405, notFoundPage('page'));
+    const form = new URLSearchParams(await readBody(req));
+    try {
+      if (action === 'card') {
+        state.replaceCard(session.customer, { number: form.get('number') ?? '', expiry: form.get('expiry') ?? '', cvc: form.get('cvc') ?? '' });
+        state.save();
+        return sendHtml(res, 200, view({ kind: 'ok', text: 'The new card is saved and will be used for the next invoices.' }));
+      }
+      if (action === 'cancel' || action === 'resume') {
+        const sub = subs.find((s) => s.id === form.get('subscription'));
+        if (!sub) return sendHtml(res, 404, view({ kind: 'error', text: 'That subscription is not yours or has ended.' }));
+        state.updateSubscription(sub.id, { items: [], cancel_at_period_end: action === 'cancel' });
+        state.save();
+        return sendHtml(res, 200, view({ kind: 'ok', text: action === 'cancel' ? 'The subscription ends with the current period.' : 'The subscription continues.' }));
+      }
+    } catch (e) {
+      if (!(e instanceof FakeApiError)) throw e;
+      return sendHtml(res, 402, view({ kind: 'error', text: e.message }));
+    }
+    return sendHtml(res, 404, notFoundPage('page'));
+  }
+
   const server = http.createServer(async (req, res) => {
     const url = new URL(req.url ?? '/', 'http://fake.local');
     try {
       if (url.pathname === '/health') return sendJson(res, 200, { ok: true });
       if (url.pathname.startsWith('/_test/')) return await control(req, res, url.pathname);
       if (url.pathname.startsWith('/pay/') || url.pathname.startsWith('/invoice/')) return await hostedPage(req, res, url);
+      if (url.pathname.startsWith('/portal/')) return await portalPage(req, res, url);
       if (!url.pathname.startsWith('/v1/')) return sendHtml(res, 404, notFoundPage('page'));
 
       if (!authorised(req)) throw new FakeApiError(401, 'authentication_error', 'Invalid API Key provided.');

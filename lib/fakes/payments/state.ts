@@ -168,6 +168,16 @@ export interface PaymentMethod extends Json {
   created: number;
 }
 
+export interface PortalSession extends Json {
+  id: string;
+  object: 'billing_portal.session';
+  customer: string;
+  return_url: string | null;
+  url: string;
+  created: number;
+  livemode: false;
+}
+
 interface Snapshot {
   seq: number;
   customers: Customer[];
@@ -181,6 +191,7 @@ interface Snapshot {
   /** Prorations waiting for the next invoice, per subscription. */
   pendingItems: [string, InvoiceLine[]][];
   events: ApiEvent[];
+  portalSessions?: PortalSession[];
 }
 
 export class FakeApiError extends Error {
@@ -245,6 +256,7 @@ export class PaymentsState {
   paymentMethods = new Map<string, PaymentMethod>();
   pendingItems = new Map<string, InvoiceLine[]>();
   events: ApiEvent[] = [];
+  portalSessions = new Map<string, PortalSession>();
   /** Called for each new event; the webhook sender listens here. */
   onEvent: (event: ApiEvent) => void = () => undefined;
 
@@ -272,6 +284,7 @@ export class PaymentsState {
     this.paymentMethods = new Map(s.paymentMethods.map((x) => [x.id, x]));
     this.pendingItems = new Map(s.pendingItems);
     this.events = s.events;
+    this.portalSessions = new Map((s.portalSessions ?? []).map((x) => [x.id, x]));
   }
 
   /** Write everything to the state file (when there is one) so a restart keeps customers and subscriptions. */
@@ -289,6 +302,7 @@ export class PaymentsState {
       paymentMethods: [...this.paymentMethods.values()],
       pendingItems: [...this.pendingItems],
       events: this.events.slice(-500),
+      portalSessions: [...this.portalSessions.values()].slice(-200),
     };
     const tmp = `${this.file}.tmp`;
     fs.writeFileSync(tmp, JSON.stringify(snapshot));
@@ -699,6 +713,42 @@ export class PaymentsState {
     this.emit('customer.subscription.updated', sub, previous);
     this.emit('invoice.paid', invoice);
     return sub;
+  }
+
+  // ---- self-service page ----
+
+  createPortalSession(customerId: string | undefined, returnUrl: string | undefined): PortalSession {
+    if (!customerId) throw new FakeApiError(400, 'invalid_request_error', 'Missing required param: customer.', { param: 'customer' });
+    this.customer(customerId);
+    const id = this.newId('bps');
+    const session: PortalSession = { id, object: 'billing_portal.session', customer: customerId, return_url: returnUrl ?? null, url: `${this.publicUrl()}/portal/${id}`, created: nowSeconds(), livemode: false };
+    this.portalSessions.set(id, session);
+    return session;
+  }
+
+  portalSession(id: string): PortalSession {
+    const s = this.portalSessions.get(id);
+    if (!s || s.created < nowSeconds() - 3600) throw notFound('billing_portal.session', id);
+    return { ...s, url: `${this.publicUrl()}/portal/${id}` };
+  }
+
+  /** The card on file of a customer, if any. */
+  defaultCard(customerId: string): PaymentMethod | null {
+    const pmId = this.customer(customerId).invoice_settings.default_payment_method;
+    return pmId ? (this.paymentMethods.get(pmId) ?? null) : null;
+  }
+
+  /** Replace the card on file (and on the customer's live subscriptions); declines leave the old card. */
+  replaceCard(customerId: string, card: CardInput): PaymentMethod {
+    const digits = this.checkCard(card);
+    const customer = this.customer(customerId);
+    const pm = this.attachCard(customer, digits, card.expiry);
+    for (const sub of this.subscriptions.values()) {
+      if (sub.customer === customerId && sub.status !== 'canceled') sub.default_payment_method = pm.id;
+    }
+    this.emit('payment_method.attached', pm);
+    this.emit('customer.updated', customer, { invoice_settings: {} });
+    return pm;
   }
 
   invoice(id: string): Invoice {

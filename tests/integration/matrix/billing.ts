@@ -46,6 +46,13 @@ export const rows: MatrixRow[] = [
     expect: ownersOnly(409),
     note: 'nothing to resume in the world',
   },
+  {
+    file: 'app/api/billing/self-service/route.ts',
+    method: 'POST',
+    url: () => '/api/billing/self-service',
+    expect: ownersOnly([201, 409, 503]),
+    note: '409 without a customer yet; 201 once the checkout row above made one (with the stack fake), 503 without a payment service',
+  },
   { file: 'app/api/billing/invoices/route.ts', method: 'GET', url: () => '/api/billing/invoices', expect: ownersOnly(200) },
   { file: 'app/api/billing/usage/route.ts', method: 'GET', url: () => '/api/billing/usage', expect: ownersOnly(200) },
   {
