@@ -1,5 +1,6 @@
 import { ZodError, type ZodType, z } from 'zod';
 import { AppError, type FieldIssue } from '@/lib/errors';
+import { assertSameOrigin } from './origin';
 
 /** zod issues → our field issues, with dotted paths a form can map back to fields. */
 export function zodIssues(error: ZodError): FieldIssue[] {
@@ -46,13 +47,23 @@ export const idParam = z.object({ id: z.coerce.number().int().positive() });
 
 type Handler<C> = (request: Request, context: C) => Promise<Response> | Response;
 
+export interface RouteOptions {
+  /**
+   * 'same' (default): state-changing methods from another site's pages are refused (403).
+   * 'any': the route is meant to be called cross-site (public scoring, abuse reports,
+   * server-to-server webhooks) and applies its own rules.
+   */
+  origin?: 'same' | 'any';
+}
+
 /**
- * Wrap a route handler: AppError → its status, ZodError → 422, anything else → a 500
- * that logs the cause on the server and tells the client nothing internal.
+ * Wrap a route handler: cross-site writes refused, AppError → its status, ZodError → 422,
+ * anything else → a 500 that logs the cause on the server and tells the client nothing internal.
  */
-export function route<C = { params: Promise<Record<string, string>> }>(fn: Handler<C>): Handler<C> {
+export function route<C = { params: Promise<Record<string, string>> }>(fn: Handler<C>, opts: RouteOptions = {}): Handler<C> {
   return async (request, context) => {
     try {
+      if (opts.origin !== 'any') assertSameOrigin(request);
       return await fn(request, context);
     } catch (error) {
       if (error instanceof ZodError) {

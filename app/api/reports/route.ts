@@ -7,4 +7,4 @@ export const POST = route(async (request) => {
   const embed = await requireReportableEmbed(input.token);
   const report = await submitReport(embed, input, request);
   return Response.json({ report: { id: report.id, status: report.status } }, { status: 201 });
-});
+}, { origin: 'any' });

@@ -15,7 +15,7 @@ export async function POST(request: Request, context: Ctx): Promise<Response> {
     cors = corsHeaders(req, await loadServedEmbed(token).catch(() => null));
     const { answer } = await scoreForToken(token, req);
     return Response.json(answer, { headers: { 'Cache-Control': 'no-store' } });
-  })(request, context);
+  }, { origin: 'any' })(request, context);
   for (const [k, v] of Object.entries(cors)) response.headers.set(k, v);
   response.headers.set('Cache-Control', 'no-store');
   return response;

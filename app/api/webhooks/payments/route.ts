@@ -14,4 +14,4 @@ export const POST = route(async (request) => {
   if (Buffer.byteLength(raw) > MAX_EVENT_BYTES) throw new AppError('payload_too_large', 'The event is too large.');
   const result = await processWebhook(raw, request.headers.get('stripe-signature'), request);
   return Response.json(result);
-});
+}, { origin: 'any' });
