@@ -26,8 +26,12 @@ const NUMBER = /^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/;
 /** Cells that mean "no value" rather than a typo. */
 const MISSING = new Set(['', 'na', 'n/a', 'nan', 'null', 'none', '-', '?']);
 
-export function parseNumberCell(raw: string): number | null {
-  const t = raw.trim();
+const DECIMAL_COMMA = /^[+-]?\d*,\d+$/;
+
+/** A number cell; with `decimalComma` (files separated by ; or tab) "23,4" reads as 23.4. */
+export function parseNumberCell(raw: string, decimalComma = false): number | null {
+  let t = raw.trim();
+  if (decimalComma && DECIMAL_COMMA.test(t)) t = t.replace(',', '.');
   if (!NUMBER.test(t)) return null;
   const v = Number(t);
   return Number.isFinite(v) ? v : null;
@@ -71,6 +75,8 @@ export function parseCsvText(text: string): ParsedTable {
   if (data.length === 0) throw new AppError('bad_request', 'The file is empty: a CSV needs a header row and at least one data row.');
   const header = data[0].map((h) => h.trim());
   const body = data.slice(1);
+  // Sheets exported with a decimal comma separate columns with ; or tab instead.
+  const decimalComma = parsed.meta.delimiter !== ',';
   if (header.length > MAX_COLUMNS) throw new AppError('invalid_input', `The header has ${header.length} columns; at most ${MAX_COLUMNS} are supported.`);
 
   const headerIssues: FieldIssue[] = [];
@@ -106,7 +112,7 @@ export function parseCsvText(text: string): ParsedTable {
       const cell = r[j];
       if (isMissing(cell)) continue;
       filled++;
-      if (parseNumberCell(cell) !== null) numeric++;
+      if (parseNumberCell(cell, decimalComma) !== null) numeric++;
     }
     const kind: DatasetColumn['kind'] = filled > 0 && numeric * 2 > filled ? 'numeric' : 'text';
     return { name, kind, count: 0, missing: 0, min: null, max: null, mean: null, std: null };
@@ -115,7 +121,7 @@ export function parseCsvText(text: string): ParsedTable {
   const cells: Cell[][] = body.map((r) =>
     r.map((raw, j) => {
       if (columns[j].kind === 'text') return isMissing(raw) ? null : raw.trim();
-      return parseNumberCell(raw);
+      return parseNumberCell(raw, decimalComma);
     }),
   );
 

@@ -66,6 +66,14 @@ describe('dataset upload', () => {
     expect(m.dropped).toBe(5);
   });
 
+  it('reads decimal commas in a semicolon-separated export', async () => {
+    const lines = ['speed;distance', ...Array.from({ length: 12 }, (_, i) => `${20 + i},5;${100 + i}`)];
+    const { status, json } = await upload(csvForm(lines.join('\r\n'), 'export.csv'));
+    expect(status).toBe(201);
+    expect(json.dataset.columns[0]).toMatchObject({ kind: 'numeric', min: 20.5, max: 31.5, missing: 0 });
+    expect(json.dataset.preview[0]).toEqual([20.5, 100]);
+  });
+
   it('accepts a pasted table from the form', async () => {
     const form = new FormData();
     form.set('text', rowsOf(12));
