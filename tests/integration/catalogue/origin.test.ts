@@ -60,7 +60,7 @@ describe('through the route handlers', () => {
     const res = await datasetsPOST(await upload({ origin: 'https://evil.test' }), ctx());
     expect(res.status).toBe(403);
     expect(((await res.json()) as { error: { message: string } }).error.message).toMatch(/another website/);
-    const res2 = await modelPATCH(await asOwner(`/api/models/${w.modelId}`, { method: 'PATCH', json: { name: 'Hijacked' }, headers: { 'sec-fetch-site': 'cross-site' } }), ctx({ id: String(w.modelId) }));
+    const res2 = await modelPATCH(await asOwner(`/api/models/${w.modelId}`, { method: 'PATCH', json: { name: 'Hijacked' }, headers: { 'sec-fetch-site': 'cross-site' } }), { params: Promise.resolve({ id: String(w.modelId) }) });
     expect(res2.status).toBe(403);
     expect(changedTables(before, await fingerprint())).toEqual([]);
   });
