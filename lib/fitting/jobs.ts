@@ -112,10 +112,16 @@ export function pumpFits(): void {
         const [claimed] = await Fit.update({ status: 'running', runnerId: state.id, startedAt: new Date() }, { where: { id: next.id, status: 'queued' } });
         if (claimed !== 1) continue;
         state.active.set(next.id, null as unknown as Worker);
-        void runJob(next.id).finally(() => {
-          state.active.delete(next.id);
-          pumpFits();
-        });
+        void runJob(next.id)
+          .catch(async (e) => {
+            // Never leave a claimed job running: an unexpected error fails it with a reason.
+            console.error('[partwise] fit job', next.id, 'failed unexpectedly:', e);
+            await finish(next.id, { status: 'failed', error: 'The fit stopped because of an error on our side; start it again.' }).catch(() => {});
+          })
+          .finally(() => {
+            state.active.delete(next.id);
+            pumpFits();
+          });
       }
     } catch (e) {
       console.error('[partwise] fit runner could not claim a job:', e);

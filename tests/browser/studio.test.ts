@@ -3,7 +3,6 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import { appUrl, launchBrowser, screenshot } from '../helpers/browser';
 import { DEMO_USERS } from '@/lib/demo/accounts';
-import { sessionCookie } from '../helpers/auth';
 
 let browser: Browser;
 let page: Page;
@@ -11,16 +10,12 @@ let page: Page;
 beforeAll(async () => {
   browser = await launchBrowser();
   const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
-  // Signed in as the seeded analyst with a real signed session cookie (sign-in itself is tested in accounts.test.ts).
-  const { User } = await import('@/models');
-  const analyst = (await User.findOne({ where: { email: DEMO_USERS.member.email } }))!;
-  const cookies = (await sessionCookie(analyst.id)).split('; ').map((pair) => {
-    const i = pair.indexOf('=');
-    return { name: pair.slice(0, i), value: pair.slice(i + 1), url: appUrl('/') };
-  });
-  await context.addCookies(cookies);
   page = await context.newPage();
-  await page.goto(appUrl('/studio/datasets'));
+  await page.goto(appUrl('/signin?callbackUrl=%2Fstudio%2Fdatasets'));
+  await page.getByLabel('E-mail').fill(DEMO_USERS.member.email);
+  await page.getByLabel('Password').fill(DEMO_USERS.member.password);
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  await page.waitForURL(/\/studio\/datasets$/);
   await page.locator('h1').filter({ hasText: 'Datasets' }).waitFor();
 });
 afterAll(async () => {
