@@ -109,7 +109,7 @@ export function portalView(v: PortalViewInput): string {
       const price = sub.items.data[0]?.price;
       const action = sub.cancel_at_period_end ? 'resume' : 'cancel';
       return `<tr><td><b>${esc(productName)}</b><br><span class="muted">${price ? euros(price.unit_amount) : ''} a month · ${sub.cancel_at_period_end ? `ends ${date(sub.current_period_end)}` : `renews ${date(sub.current_period_end)}`}</span></td>
-      <td class="n"><form method="post" action="/portal/${esc(v.session.id)}/${action}"><input type="hidden" name="subscription" value="${esc(sub.id)}"><button type="submit" style="margin:0;width:auto;padding:8px 14px;${action === 'cancel' ? 'background:#fff;color:#8a2318;border:1px solid #e2a39b' : ''}">${action === 'cancel' ? 'End at period end' : 'Keep subscription'}</button></form></td></tr>`;
+      <td class="n"><form method="post" action="/portal/${esc(v.session.id)}/${action}"><input type="hidden" name="subscription" value="${esc(sub.id)}"><button type="submit" style="margin:0;width:auto;white-space:nowrap;padding:8px 14px;${action === 'cancel' ? 'background:#fff;color:#8a2318;border:1px solid #e2a39b' : ''}">${action === 'cancel' ? 'End at period end' : 'Keep subscription'}</button></form></td></tr>`;
     })
     .join('');
   const body = `<main>
