@@ -1,7 +1,7 @@
 /**
  * Next.js calls register() once when a server process starts. Fit jobs that a previous
  * process left running can never finish, so they are failed with a reason here, and
- * queued ones are picked up.
+ * queued ones are picked up. Background timers (spike sweep, mail retry) start here too.
  */
 export async function register() {
   if (process.env.NEXT_RUNTIME === 'nodejs') {
@@ -13,5 +13,7 @@ export async function register() {
       console.error('[partwise] could not check for interrupted fit jobs:', (e as Error).message);
     }
     (await import('@/lib/support/timers')).startSupportTimers();
+    // Mail queued while the SMTP server was down goes out without waiting for a request.
+    (await import('@/lib/mail')).ensureMailRetryTimer();
   }
 }
