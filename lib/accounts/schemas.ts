@@ -5,6 +5,10 @@ import { z } from 'zod';
  * with them and answer 422 with field issues) and the client forms (same rules, so
  * most mistakes show before a round trip). No server imports here.
  */
+// Account pages run under a CSP without 'unsafe-eval'; zod's JIT would probe `new Function`
+// there (a reported violation even though it is caught), so validate without it.
+z.config({ jitless: true });
+
 export const PASSWORD_MIN = 10;
 
 export const email = z.string().trim().toLowerCase().min(1, 'Enter your e-mail address.').max(320, 'That address is too long.').email('Enter a valid e-mail address, like name@example.org.');
