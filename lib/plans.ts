@@ -15,7 +15,7 @@ export interface PlanLimits {
   datasetRows: number;
   /** Upload size in bytes. */
   uploadBytes: number;
-  /** People in the workspace, owners included. */
+  /** People in the workspace, owners included (open invitations hold a seat too). */
   seats: number;
 }
 
@@ -34,14 +34,14 @@ export const PLANS: Record<PlanId, Plan> = {
     name: 'Sketch',
     tagline: 'Try an idea on a small table and share one calculator.',
     monthlyPrice: 0,
-    limits: { calculators: 1, answersPerMonth: 500, datasetRows: 2_000, uploadBytes: 2 * 1024 * 1024, seats: 1 },
+    limits: { calculators: 1, answersPerMonth: 500, datasetRows: 2_000, uploadBytes: 2 * 1024 * 1024, seats: 2 },
   },
   bench: {
     id: 'bench',
     name: 'Bench',
-    tagline: 'For one analyst who publishes calculators people rely on.',
+    tagline: 'For one analyst, and a colleague who reviews, publishing calculators people rely on.',
     monthlyPrice: 1900,
-    limits: { calculators: 5, answersPerMonth: 20_000, datasetRows: 50_000, uploadBytes: 20 * 1024 * 1024, seats: 1 },
+    limits: { calculators: 5, answersPerMonth: 20_000, datasetRows: 50_000, uploadBytes: 20 * 1024 * 1024, seats: 2 },
   },
   lab: {
     id: 'lab',

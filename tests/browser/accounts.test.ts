@@ -76,12 +76,16 @@ describe('accounts in the browser', () => {
     expect(nav).not.toContain('Support');
   });
 
-  it('the team page shows the owner and refuses a second seat on the free plan', async () => {
+  it('the team page shows the owner and refuses a third seat on the free plan', async () => {
     await page.goto(appUrl('/studio/team'));
     await expect(page.locator('tbody tr').count()).resolves.toBe(1);
+    // Sketch has two seats: the first invitation takes the second seat, the next is refused.
     await page.getByLabel('E-mail', { exact: true }).fill('friend@example.test');
     await page.getByRole('button', { name: 'Send invitation' }).click();
-    await page.getByRole('alert').filter({ hasText: 'Sketch plan includes 1 seat' }).waitFor();
+    await page.getByText('Invitation sent to friend@example.test').waitFor();
+    await page.getByLabel('E-mail', { exact: true }).fill('second-friend@example.test');
+    await page.getByRole('button', { name: 'Send invitation' }).click();
+    await page.getByRole('alert').filter({ hasText: 'Sketch plan includes 2 seats' }).waitFor();
     await screenshot(page, 'accounts-team');
   });
 

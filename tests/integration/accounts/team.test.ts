@@ -119,11 +119,13 @@ describe('invitations', () => {
   it('refuses an address already in the workspace, and 402 past the plan’s seats', async () => {
     const dup = await invite(owner, lab.id, { email: 'mo@club.test' });
     expect(dup.status).toBe(409);
-    const full = await invite(owner, sketch.id, { email: 'friend@club.test' });
+    // Sketch has two seats: the owner and one invitation fill it.
+    expect((await invite(owner, sketch.id, { email: 'friend@club.test' })).status).toBe(201);
+    const full = await invite(owner, sketch.id, { email: 'second-friend@club.test' });
     expect(full.status).toBe(402);
     const err = (await full.json()).error;
     expect(err.code).toBe('plan_limit');
-    expect(err.message).toMatch(/Sketch plan includes 1 seat/);
+    expect(err.message).toMatch(/Sketch plan includes 2 seats/);
   });
 
   it('answers 422 for a bad address or role', async () => {

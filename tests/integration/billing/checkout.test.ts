@@ -64,7 +64,7 @@ describe('checkout through the fake payment service', () => {
     const usage = await (await usageGET(await makeRequest('/api/billing/usage', { userId: owner.id }), { params: Promise.resolve({}) })).json();
     expect(usage.plan.id).toBe('bench');
     expect(usage.usage.map((m: { key: string }) => m.key)).toEqual(['answers', 'calculators', 'seats', 'datasetRows', 'uploadBytes']);
-    expect(usage.usage[2]).toMatchObject({ used: 2, limit: 1 });
+    expect(usage.usage[2]).toMatchObject({ used: 2, limit: 2 });
 
     const audits = await AuditEvent.findAll({ where: { workspaceId: ws.id } });
     const actions = audits.map((a) => a.action);
