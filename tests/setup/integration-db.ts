@@ -11,7 +11,9 @@ fs.mkdirSync(dir, { recursive: true });
 const file = path.join(dir, `${randomUUID()}.sqlite`);
 process.env.DATABASE_URL = file;
 process.env.NEXTAUTH_SECRET ??= 'integration-test-secret-not-for-production';
-process.env.NEXTAUTH_URL ??= 'http://localhost:3000';
+// Handlers are called directly with http://localhost:3000 requests (tests/helpers/auth.ts),
+// whatever stack `npm test` started for the browser tests.
+process.env.NEXTAUTH_URL = 'http://localhost:3000';
 
 const { openSequelize } = await import('@/models/db');
 const { createMigrator } = await import('@/lib/db/migrator');
