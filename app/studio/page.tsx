@@ -2,7 +2,7 @@ import type { Metadata } from 'next';
 import Link from 'next/link';
 import { workspaceCounts } from '@/lib/accounts/overview';
 import { pageActor, pageCurrentWorkspace } from '@/lib/auth/page';
-import { workspacePlan } from '@/lib/accounts/seats';
+import { workspacePlan } from '@/lib/billing/limits';
 
 export const metadata: Metadata = { title: 'Studio' };
 export const dynamic = 'force-dynamic';

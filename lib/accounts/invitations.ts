@@ -8,7 +8,8 @@ import type { WorkspaceActor } from '@/lib/auth/guard';
 import { Invitation, Membership, User, Workspace, sequelize, type WorkspaceRole } from '@/models';
 import { DAY, hashToken, newLinkToken } from './tokens';
 import { ACCOUNT_LIMITS, limitOrThrow } from './limits';
-import { seatLimitError, seatsTaken, workspacePlan } from './seats';
+import { workspacePlan } from '@/lib/billing/limits';
+import { seatLimitError, seatsTaken } from './seats';
 import { BCRYPT_ROUNDS } from './signup';
 
 export const INVITATION_TTL_MS = 7 * DAY;

@@ -1,12 +1,7 @@
 import { Op, type Transaction } from 'sequelize';
 import { AppError } from '@/lib/errors';
-import { getPlan, type Plan } from '@/lib/plans';
-import { Invitation, Membership, Subscription } from '@/models';
-
-export async function workspacePlan(workspaceId: number, transaction?: Transaction): Promise<Plan> {
-  const sub = await Subscription.findOne({ where: { workspaceId }, transaction });
-  return getPlan(sub?.plan);
-}
+import type { Plan } from '@/lib/plans';
+import { Invitation, Membership } from '@/models';
 
 /** People in the workspace plus invitations still open (they hold a seat until used or expired). */
 export async function seatsTaken(workspaceId: number, opts: { exceptInvitationId?: number; includeInvitations?: boolean; transaction?: Transaction } = {}): Promise<number> {

@@ -3,7 +3,8 @@ import { recordAudit } from '@/lib/audit';
 import type { WorkspaceActor } from '@/lib/auth/guard';
 import { Membership, User, sequelize, type WorkspaceRole } from '@/models';
 import { listInvitations } from './invitations';
-import { seatsTaken, workspacePlan } from './seats';
+import { workspacePlan } from '@/lib/billing/limits';
+import { seatsTaken } from './seats';
 
 export interface TeamMember {
   membershipId: number;

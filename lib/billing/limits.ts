@@ -1,4 +1,4 @@
-import { Op, QueryTypes, UniqueConstraintError } from 'sequelize';
+import { Op, QueryTypes, UniqueConstraintError, type Transaction } from 'sequelize';
 import { AppError } from '@/lib/errors';
 import { enqueueMail } from '@/lib/mail';
 import { ANSWER_ALERT_THRESHOLDS, ANSWER_GRACE, DEFAULT_PLAN, PLAN_IDS, PLANS, getPlan, type Plan } from '@/lib/plans';
@@ -17,8 +17,8 @@ import { Embed, Membership, Subscription, User, Workspace, sequelize } from '@/m
 const PLAN_IN_FORCE = new Set(['active', 'trialing', 'past_due']);
 
 /** The plan whose limits apply to a workspace right now. */
-export async function workspacePlan(workspaceId: number): Promise<Plan> {
-  const sub = await Subscription.findOne({ where: { workspaceId }, attributes: ['plan', 'status'] });
+export async function workspacePlan(workspaceId: number, transaction?: Transaction): Promise<Plan> {
+  const sub = await Subscription.findOne({ where: { workspaceId }, attributes: ['plan', 'status'], transaction });
   if (!sub || !PLAN_IN_FORCE.has(sub.status)) return PLANS[DEFAULT_PLAN];
   return getPlan(sub.plan);
 }
