@@ -35,8 +35,9 @@ async function seedAccountsAndData(m: typeof import('@/models')) {
     await m.Subscription.create({ workspaceId: workspace.id, plan: 'sketch', status: 'active' }, { transaction });
 
     const csv = demoRidesCsv();
-    const { parseDemoTable } = await import('@/lib/demo/table');
-    const table = parseDemoTable(csv);
+    // The same parser as an upload, so the demo dataset has the columns an analyst would get.
+    const { parseCsvText } = await import('@/lib/datasets/parse');
+    const table = parseCsvText(csv);
     await m.Dataset.create(
       { workspaceId: workspace.id, createdById: owner.id, name: 'Ride logs, autumn season', originalFilename: 'riverside-rides.csv', originalCsv: Buffer.from(csv), columns: table.columns, cells: table.cells, rowCount: table.cells.length },
       { transaction },

@@ -18,7 +18,7 @@ import { POST as forgotPOST } from '@/app/api/account/password/forgot/route';
 import { payloadChecksum, type VersionPayload } from '@/lib/embeds/payload';
 import { membershipChartSpec } from '@/lib/embeds/chart-spec';
 import { clearScoringCaches } from '@/lib/scoring';
-import { parseDemoTable } from '@/lib/demo/table';
+import { parseCsvText } from '@/lib/datasets/parse';
 import { Dataset, Fit, MixtureModel, ModelVersion, Subscription } from '@/models';
 import { buildWorld } from '../matrix/world';
 import type { World } from '../matrix/types';
@@ -197,7 +197,7 @@ beforeAll(async () => {
   await Subscription.update({ plan: 'sketch' }, { where: { workspaceId: w.otherWorkspaceId } });
 
   const csv = ['speed,distance,club_size', ...Array.from({ length: 12 }, (_, i) => `${20 + (i % 5)},${50 + i * 7},40`)].join('\n');
-  const table = parseDemoTable(csv);
+  const table = parseCsvText(csv);
   const small = await Dataset.create({ workspaceId: w.workspaceId, createdById: w.users.owner.id, name: 'Small', originalFilename: 'small.csv', originalCsv: Buffer.from(csv), columns: table.columns, cells: table.cells, rowCount: 12 });
   smallDatasetId = small.id;
 

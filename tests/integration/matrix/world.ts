@@ -1,6 +1,6 @@
 import { buildModel, parseNumericTable, selectMixture, toModelJson } from '@/lib/mixture';
 import { demoRidesCsv } from '@/lib/demo/cycling';
-import { parseDemoTable } from '@/lib/demo/table';
+import { parseCsvText } from '@/lib/datasets/parse';
 import { Dataset, Embed, Fit, Membership, MixtureModel, ModelVersion, Subscription, User, Workspace } from '@/models';
 import type { World } from './types';
 
@@ -21,7 +21,7 @@ export async function buildWorld(): Promise<World> {
   ]);
 
   const csv = demoRidesCsv(7);
-  const table = parseDemoTable(csv);
+  const table = parseCsvText(csv);
   const dataset = await Dataset.create({ workspaceId: a.id, createdById: owner.id, name: 'Rides', originalFilename: 'rides.csv', originalCsv: Buffer.from(csv), columns: table.columns, cells: table.cells, rowCount: table.cells.length });
   const features = ['avg_speed_kmh', 'weekly_distance_km', 'climb_per_ride_m'];
   const numeric = parseNumericTable(csv, features);
