@@ -4,7 +4,7 @@
  * candidates, each with its trace and full model JSON). No I/O and no database, so a
  * worker thread (or, later, a queue worker) can import it as it is.
  */
-import { buildModel, selectMixture, toModelJson, type CandidateProgress, type Covariance } from '../mixture';
+import { buildModel, selectMixture, toModelJson, type Candidate, type CandidateProgress, type Covariance } from '../mixture';
 
 export interface ComputeInput {
   rows: Float64Array;
@@ -21,17 +21,8 @@ export interface ComputeInput {
   regCovar: number;
 }
 
-export interface StoredCandidate {
-  rank: number | null;
-  components: number;
-  covariance: Covariance;
-  bic: number | null;
-  aic: number | null;
-  logLikelihood: number | null;
-  parameters: number | null;
-  iterations: number | null;
-  converged: boolean | null;
-  error: string | null;
+/** The engine's candidate, with its in-memory fit replaced by what is stored. */
+export interface StoredCandidate extends Omit<Candidate, 'result'> {
   /** Mean log-likelihood per row at each iteration of the winning restart. */
   trace: number[];
   /** The engine's model JSON v1 (lib/mixture/README.md); null when the candidate failed. */
