@@ -1,7 +1,7 @@
 import { Op, QueryTypes } from 'sequelize';
 import { workspacePlan } from '@/lib/billing/limits';
 import { AppError } from '@/lib/errors';
-import { embedMonthlyAnswers } from '@/lib/usage';
+import { embedMonthlyAnswers, flushUsage } from '@/lib/usage';
 import { AbuseReport, AuditEvent, Embed, ModelVersion, User, Workspace, sequelize } from '@/models';
 import { hourWindow, lastDays, lastHourEstimate } from './rates';
 import { ownersOf, parseOrigins } from './search';
@@ -68,6 +68,7 @@ export const USAGE_DAYS = 30;
 /** Daily totals (UTC) over the last `days` days, summed from the hour buckets; days without answers are 0. */
 export async function dailyAnswers(embedId: number, days = USAGE_DAYS, now = new Date()): Promise<{ day: string; answers: number }[]> {
   const dayList = lastDays(days, now);
+  await flushUsage();
   const rows = await sequelize.query<{ day: string; answers: number }>(
     `SELECT SUBSTR(period, 1, 10) AS day, SUM(count) AS answers FROM usage_counters
      WHERE embed_id = :embedId AND granularity = 'hour' AND period >= :since
@@ -80,6 +81,7 @@ export async function dailyAnswers(embedId: number, days = USAGE_DAYS, now = new
 
 async function lastHourAnswers(embedId: number, now: Date): Promise<number> {
   const window = hourWindow(now);
+  await flushUsage();
   const rows = await sequelize.query<{ period: string; count: number }>(
     `SELECT period, count FROM usage_counters WHERE embed_id = :embedId AND granularity = 'hour' AND period IN (:periods)`,
     { replacements: { embedId, periods: [window.current, window.previous] }, type: QueryTypes.SELECT },

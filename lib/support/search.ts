@@ -1,6 +1,6 @@
 import { QueryTypes } from 'sequelize';
 import { DEFAULT_PLAN, PLAN_IDS, getPlan } from '@/lib/plans';
-import { monthPeriod } from '@/lib/usage';
+import { flushUsage, monthPeriod } from '@/lib/usage';
 import { sequelize } from '@/models';
 import { hourWindow } from './rates';
 import type { SearchQuery, SortKey } from './schemas';
@@ -140,6 +140,7 @@ export async function searchCalculators(query: SearchQuery, now = new Date()): P
     defaultPlan: DEFAULT_PLAN,
   };
   const where = whereClause(query, replacements);
+  await flushUsage();
   const joins = `
     FROM embeds e
     JOIN workspaces w ON w.id = e.workspace_id

@@ -1,5 +1,6 @@
 import { Op, QueryTypes } from 'sequelize';
 import { recordAudit } from '@/lib/audit';
+import { flushUsage } from '@/lib/usage';
 import { AuditEvent, Embed, sequelize } from '@/models';
 import { HOUR_MS, hourPeriodsBetween, hourWindow, lastHourEstimate } from './rates';
 
@@ -49,6 +50,7 @@ export async function usualHourlyRate(embed: { id: number; createdAt: Date }, no
   const end = new Date(now.getTime() - 2 * HOUR_MS);
   const start = new Date(end.getTime() - (BASELINE_HOURS - 1) * HOUR_MS);
   const periods = hourPeriodsBetween(start, end);
+  await flushUsage();
   const [{ total }] = await sequelize.query<{ total: number | null }>(
     `SELECT SUM(count) AS total FROM usage_counters WHERE embed_id = :id AND granularity = 'hour' AND period >= :from AND period <= :to`,
     { replacements: { id: embed.id, from: periods[0], to: periods[periods.length - 1] }, type: QueryTypes.SELECT },
@@ -65,6 +67,7 @@ export async function usualHourlyRate(embed: { id: number; createdAt: Date }, no
  */
 export async function sweepForSpikes(now = new Date(), rules = spikeRules()): Promise<{ flagged: number[]; checked: SpikeVerdict[] }> {
   const window = hourWindow(now);
+  await flushUsage();
   // Cheap filter first: the two latest buckets together bound the last-hour estimate.
   const candidates = await sequelize.query<{ embed_id: number; current: number; previous: number }>(
     `SELECT embed_id,

@@ -1,5 +1,6 @@
 import { createHash } from 'node:crypto';
 import { QueryTypes } from 'sequelize';
+import { flushUsage } from '@/lib/usage';
 import { sequelize } from '@/models';
 
 /**
@@ -21,6 +22,8 @@ function cellText(v: unknown): string {
 }
 
 export async function fingerprint(tables?: string[]): Promise<Fingerprint> {
+  // Answers counted in memory must be on disk before a snapshot, or they would show up as a change.
+  await flushUsage();
   const out: Fingerprint = {};
   for (const table of tables ?? (await tableNames())) {
     const rows = await sequelize.query<Record<string, unknown>>(`SELECT * FROM "${table.replace(/"/g, '""')}" ORDER BY rowid`, { type: QueryTypes.SELECT });
