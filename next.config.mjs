@@ -1,32 +1,4 @@
-/**
- * The app's own Content-Security-Policy (every page but the calculator).
- * - script-src 'unsafe-inline': Next's App Router streams its bootstrap and flight data
- *   as inline <script> tags; without a per-request nonce (which would make every page
- *   dynamic) they need it. No host but our own may serve scripts.
- * - 'unsafe-eval' only where vega charts run (studio, support): vega compiles chart
- *   expressions with the Function constructor. The dev server needs it everywhere.
- * - style-src 'unsafe-inline': React and vega write style attributes.
- */
-function appPolicy({ charts }) {
-  const evalAllowed = charts || process.env.NODE_ENV !== 'production';
-  return [
-    "default-src 'self'",
-    `script-src 'self' 'unsafe-inline'${evalAllowed ? " 'unsafe-eval'" : ''}`,
-    "style-src 'self' 'unsafe-inline'",
-    "img-src 'self' data: blob:",
-    "font-src 'self'",
-    "connect-src 'self'",
-    // the studio previews its calculators in an iframe of our own origin
-    "frame-src 'self'",
-    "frame-ancestors 'none'",
-    // forms post only to us; checkout leaves by navigation (location.assign), not a form
-    "form-action 'self'",
-    "base-uri 'self'",
-    "object-src 'none'",
-    "worker-src 'self' blob:",
-    "manifest-src 'self'",
-  ].join('; ');
-}
+import { apiHeaders, appPolicy, unframedHeaders } from './lib/http/security-headers.mjs';
 
 /** @type {import('next').NextConfig} */
 const nextConfig = {
@@ -42,18 +14,15 @@ const nextConfig = {
     return [
       {
         source: '/((?!embed/).*)',
-        headers: [
-          { key: 'X-Frame-Options', value: 'DENY' },
-          { key: 'Content-Security-Policy', value: appPolicy({ charts: false }) },
-          { key: 'X-Content-Type-Options', value: 'nosniff' },
-          { key: 'Referrer-Policy', value: 'strict-origin-when-cross-origin' },
-        ],
+        headers: unframedHeaders(),
       },
       // Studio and support pages draw vega charts; a later match overrides the key above.
       ...['/studio', '/studio/:path*', '/support', '/support/:path*'].map((source) => ({
         source,
         headers: [{ key: 'Content-Security-Policy', value: appPolicy({ charts: true }) }],
       })),
+      // JSON routes: a policy that lets nothing load (their answers are data, never pages).
+      { source: '/api/:path*', headers: apiHeaders() },
       {
         source: '/embed/:path*',
         headers: [

@@ -2,9 +2,10 @@ import fs from 'node:fs';
 import http from 'node:http';
 import path from 'node:path';
 import zlib from 'node:zlib';
-import { spawn, type ChildProcess } from 'node:child_process';
+import type { ChildProcess } from 'node:child_process';
 import autocannon from 'autocannon';
 import { buildIsStale } from './lib/build-state';
+import { spawnAppServer } from './lib/app-process';
 import { run, waitForHttp } from './lib/run';
 
 /**
@@ -14,8 +15,9 @@ import { run, waitForHttp } from './lib/run';
  *    until the form is interactive, each body gzipped at level 9), and what the chart adds
  *    after the first answer;
  * 2. time until the form is interactive (the page's `partwise:interactive` mark, median of runs);
- * 3. the scoring route under autocannon next to a bare node:http server answering the
- *    same JSON, in the same run, and their ratio.
+ * 3. the scoring route (served by the app server's fast path, lib/server) under autocannon
+ *    next to a bare node:http server answering the same JSON, in the same run, each after
+ *    the same warm-up (`--warm-up 5` seconds, discarded), and their ratio.
  * Builds into NEXT_DIST_DIR (default .next-bench) when stale; uses a fresh SQLite file.
  */
 function arg(name: string, fallback: string): string {
@@ -117,7 +119,11 @@ interface LoadFigures {
   total: number;
 }
 
+const WARM_UP = Number(arg('warm-up', '5'));
+
+/** Drive one URL: a warm-up under the same load (discarded: JIT, caches), then the measured run. */
 async function load(url: string, body: string, headers: Record<string, string>): Promise<LoadFigures> {
+  if (WARM_UP > 0) await autocannon({ url, method: 'POST', body, headers, connections: CONNECTIONS, duration: WARM_UP, pipelining: 1 });
   const result = await autocannon({ url, method: 'POST', body, headers, connections: CONNECTIONS, duration: DURATION, pipelining: 1 });
   return {
     rps: result.requests.average,
@@ -159,7 +165,7 @@ async function main() {
     DATABASE_URL: path.join(DIR, 'bench.sqlite'),
     PARTWISE_DATA_DIR: DIR,
     NEXTAUTH_URL: APP,
-    NEXTAUTH_SECRET: 'bench-secret-not-for-production',
+    NEXTAUTH_SECRET: 'bench-embed-secret-not-for-production',
     // One loopback client stands for many visitors: lift the per-address and per-token limits.
     PARTWISE_SCORE_ADDRESS_BURST: '1000000000',
     PARTWISE_SCORE_TOKEN_BURST: '1000000000',
@@ -167,7 +173,7 @@ async function main() {
   };
   const token = await prepareDatabase(appEnv);
   const log = fs.openSync(path.join(DIR, 'server.log'), 'a');
-  const server: ChildProcess = spawn('npx', ['--no-install', 'next', 'start', '-p', String(PORT), '-H', '127.0.0.1'], { env: appEnv, stdio: ['ignore', log, log], detached: true });
+  const server: ChildProcess = spawnAppServer({ port: PORT, env: appEnv, stdio: ['ignore', log, log], detached: true });
   let bare: http.Server | undefined;
   try {
     await waitForHttp(`${APP}/api/health`, 90_000, server);
@@ -181,13 +187,12 @@ async function main() {
     const sample = await fetch(scoreUrl, { method: 'POST', headers, body });
     if (sample.status !== 200) throw new Error(`scoring answered ${sample.status}: ${await sample.text()}`);
     const answer = await sample.text();
-    for (let i = 0; i < 200; i++) await fetch(scoreUrl, { method: 'POST', headers, body }).then((r) => r.arrayBuffer());
 
-    console.log(`[bench] scoring route: ${CONNECTIONS} connections, ${DURATION} s…`);
+    console.log(`[bench] scoring route: ${CONNECTIONS} connections, ${WARM_UP} s warm-up, then ${DURATION} s…`);
     const route = await load(scoreUrl, body, headers);
     bare = await bareServer(answer);
     const bareUrl = `http://127.0.0.1:${(bare.address() as { port: number }).port}/`;
-    console.log(`[bench] bare node:http with the same JSON: ${CONNECTIONS} connections, ${DURATION} s…`);
+    console.log(`[bench] bare node:http with the same JSON: ${CONNECTIONS} connections, ${WARM_UP} s warm-up, then ${DURATION} s…`);
     const baseline = await load(bareUrl, body, headers);
 
     const firstGzip = page.firstLoad.reduce((s, f) => s + f.gzip, 0);

@@ -3,6 +3,7 @@ import path from 'node:path';
 import { spawn, type ChildProcess } from 'node:child_process';
 import autocannon from 'autocannon';
 import { buildIsStale } from './lib/build-state';
+import { spawnAppServer } from './lib/app-process';
 import { run, waitForHttp } from './lib/run';
 
 /**
@@ -117,7 +118,7 @@ async function main() {
   };
   const seeded = await prepare(env);
   const log = fs.openSync(path.join(DIR, 'server.log'), 'a');
-  const server: ChildProcess = spawn('npx', ['--no-install', 'next', 'start', '-p', String(PORT), '-H', '127.0.0.1'], { env, stdio: ['ignore', log, log], detached: true });
+  const server: ChildProcess = spawnAppServer({ port: PORT, env, stdio: ['ignore', log, log], detached: true });
   let failed = false;
   try {
     await waitForHttp(`${APP}/api/health`, 90_000, server);

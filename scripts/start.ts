@@ -1,9 +1,9 @@
 import fs from 'node:fs';
 import path from 'node:path';
-import { spawn } from 'node:child_process';
 import { openSequelize, databasePath } from '@/models/db';
 import { createMigrator } from '@/lib/db/migrator';
 import { buildIsStale } from './lib/build-state';
+import { spawnAppServer } from './lib/app-process';
 import { run } from './lib/run';
 import { startServices, stopServices } from './services';
 import { seedDemo } from './seed';
@@ -50,12 +50,11 @@ async function main() {
     await run('npm', ['run', 'build'], { env });
   }
 
-  const next = spawn('npx', ['--no-install', 'next', dev ? 'dev' : 'start', '-p', port, '-H', process.env.HOST ?? '127.0.0.1'], { stdio: 'inherit', env });
+  const next = spawnAppServer({ port, host: process.env.HOST ?? '127.0.0.1', dev, stdio: 'inherit', env });
   console.log(`[partwise] serving at ${appUrl}`);
-  const shutdown = async () => {
+  // The server writes its last usage counts before it exits; the exit handler below then stops the fakes.
+  const shutdown = () => {
     next.kill('SIGTERM');
-    await stopServices(services);
-    process.exit(0);
   };
   process.on('SIGINT', shutdown);
   process.on('SIGTERM', shutdown);

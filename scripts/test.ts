@@ -3,6 +3,7 @@ import path from 'node:path';
 import { spawn } from 'node:child_process';
 import { buildIsStale } from './lib/build-state';
 import { ensureChromium } from './lib/ensure-chromium';
+import { spawnAppServer } from './lib/app-process';
 import { run, waitForHttp } from './lib/run';
 import { startServices, stopServices, type RunningService } from './services';
 
@@ -43,7 +44,7 @@ async function main() {
   await run('npx', ['tsx', 'scripts/seed.ts'], { env });
 
   let services: RunningService[] = [];
-  let server: ReturnType<typeof spawn> | undefined;
+  let server: ReturnType<typeof spawnAppServer> | undefined;
   let exitCode = 1;
   try {
     Object.assign(process.env, env);
@@ -51,7 +52,7 @@ async function main() {
     for (const s of services) Object.assign(env, s.env);
 
     const log = fs.openSync(path.join(STACK_DIR, 'server.log'), 'a');
-    server = spawn('npx', ['--no-install', 'next', 'start', '-p', PORT, '-H', '127.0.0.1'], { env, stdio: ['ignore', log, log], detached: true });
+    server = spawnAppServer({ port: PORT, env, stdio: ['ignore', log, log], detached: true });
     await waitForHttp(`${appUrl}/api/health`, 90_000, server);
 
     const report = path.join(STACK_DIR, 'vitest-report.json');

@@ -59,7 +59,7 @@ export function frameAncestors(origins: readonly string[]): string {
 }
 
 /** The origin of an Origin header, or of a Referer when there is no Origin; null if neither. */
-export function callerOrigin(headers: Headers): string | null {
+export function callerOrigin(headers: { get(name: string): string | null }): string | null {
   const origin = headers.get('origin');
   if (origin && origin !== 'null') return normalizeOrigin(origin) ?? 'invalid';
   if (origin === 'null') return 'null';

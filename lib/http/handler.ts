@@ -18,8 +18,14 @@ export function parseWith<T>(schema: ZodType<T>, value: unknown, what = 'input')
 
 const MAX_JSON_BYTES = 64 * 1024;
 
+/** The parts of a request a JSON body is read from (a web Request, or the server's fast path). */
+export interface BodySource {
+  headers: { get(name: string): string | null };
+  text(): Promise<string>;
+}
+
 /** Read a JSON body with a size cap and content-type check, then validate it. */
-export async function readJson<T>(request: Request, schema: ZodType<T>, opts: { maxBytes?: number } = {}): Promise<T> {
+export async function readJson<T>(request: BodySource, schema: ZodType<T>, opts: { maxBytes?: number } = {}): Promise<T> {
   const max = opts.maxBytes ?? MAX_JSON_BYTES;
   const type = request.headers.get('content-type') ?? '';
   if (!/^application\/json\b/i.test(type)) {
@@ -45,6 +51,14 @@ export async function readParams<T>(params: Promise<unknown> | unknown, schema: 
 
 export const idParam = z.object({ id: z.coerce.number().int().positive() });
 
+/** Anything thrown below a route → the AppError it answers with; unexpected ones are logged here, never shown. */
+export function toAppError(error: unknown, where: string): AppError {
+  if (error instanceof ZodError) return new AppError('invalid_input', 'The input is not valid.', { issues: zodIssues(error) });
+  const appError = AppError.from(error);
+  if (appError.code === 'internal') console.error('[partwise] unhandled error in', where, error);
+  return appError;
+}
+
 type Handler<C> = (request: Request, context: C) => Promise<Response> | Response;
 
 export interface RouteOptions {
@@ -66,12 +80,7 @@ export function route<C = { params: Promise<Record<string, string>> }>(fn: Handl
       if (opts.origin !== 'any') assertSameOrigin(request);
       return await fn(request, context);
     } catch (error) {
-      if (error instanceof ZodError) {
-        return new AppError('invalid_input', 'The input is not valid.', { issues: zodIssues(error) }).toResponse();
-      }
-      const appError = AppError.from(error);
-      if (appError.code === 'internal') console.error('[partwise] unhandled error in', request.method, new URL(request.url).pathname, error);
-      return appError.toResponse();
+      return toAppError(error, `${request.method} ${new URL(request.url).pathname}`).toResponse();
     }
   };
 }

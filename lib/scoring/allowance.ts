@@ -1,4 +1,5 @@
 import { answerAllowance, type AllowanceState } from '@/lib/billing/limits';
+import { rereadScoringSettings, scoringSettings } from './limits';
 
 /**
  * The billing engineer's answer allowance, asked on every answer but remembered per
@@ -12,22 +13,30 @@ interface Entry {
 }
 
 const cache = ((globalThis as Record<symbol, unknown>)[Symbol.for('partwise.answerAllowance')] ??= new Map<number, Entry>()) as Map<number, Entry>;
+// Checks under way, so answers arriving as an entry expires share one check.
+const checking = ((globalThis as Record<symbol, unknown>)[Symbol.for('partwise.answerAllowanceChecks')] ??= new Map<number, Promise<AllowanceState>>()) as Map<number, Promise<AllowanceState>>;
 
-function ttlMs(): number {
-  const v = Number(process.env.PARTWISE_ALLOWANCE_CACHE_MS);
-  return Number.isFinite(v) && v >= 0 ? v : 2000;
-}
 
 export async function answerState(workspaceId: number, now = Date.now()): Promise<AllowanceState> {
   const hit = cache.get(workspaceId);
-  if (hit && now - hit.checkedAt < ttlMs()) return hit.state;
-  const { state } = await answerAllowance(workspaceId);
-  cache.set(workspaceId, { state, checkedAt: now });
-  return state;
+  if (hit && now - hit.checkedAt < scoringSettings(now).allowanceCacheMs) return hit.state;
+  const under = checking.get(workspaceId);
+  if (under) return under;
+  const check = answerAllowance(workspaceId).then((a) => a.state);
+  checking.set(workspaceId, check);
+  try {
+    const state = await check;
+    if (checking.get(workspaceId) === check) cache.set(workspaceId, { state, checkedAt: now });
+    return state;
+  } finally {
+    if (checking.get(workspaceId) === check) checking.delete(workspaceId);
+  }
 }
 
 /** After a plan change: read the allowance fresh next time. */
 export function invalidateAllowance(workspaceId?: number): void {
+  rereadScoringSettings();
+  checking.clear();
   if (workspaceId === undefined) cache.clear();
   else cache.delete(workspaceId);
 }

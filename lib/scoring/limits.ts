@@ -1,21 +1,51 @@
 import type { LimitOptions } from '@/lib/rate-limit';
 
 /**
- * Rate limits of the public calculator routes, for lib/rate-limit's buckets. Read at
- * call time so a test or the benchmark can set them in the environment.
+ * Settings of the public calculator routes, from the environment: rate limits for
+ * lib/rate-limit's buckets and how long embed and allowance lookups are remembered.
+ * Read at most once a second (reading process.env on every answer shows up in
+ * profiles of the scoring route); `rereadScoringSettings` (and clearScoringCaches)
+ * make a test's or the benchmark's change count at once.
  */
-function envNumber(name: string, fallback: number): number {
+function envNumber(name: string, fallback: number, allowZero = false): number {
   const v = Number(process.env[name]);
-  return Number.isFinite(v) && v > 0 ? v : fallback;
+  return Number.isFinite(v) && (v > 0 || (allowZero && v === 0)) ? v : fallback;
 }
 
-export function scoringLimits(): { perAddress: LimitOptions; perToken: LimitOptions } {
+export interface ScoringSettings {
+  perAddress: LimitOptions;
+  perToken: LimitOptions;
+  /** How long a token's embed row is remembered (status changes in this process invalidate at once). */
+  embedCacheMs: number;
+  /** How long a workspace's answer allowance is remembered. */
+  allowanceCacheMs: number;
+}
+
+function readSettings(): ScoringSettings {
   return {
     // A person trying values: a burst of 30, then one answer a second.
     perAddress: { limit: envNumber('PARTWISE_SCORE_ADDRESS_BURST', 30), windowMs: envNumber('PARTWISE_SCORE_ADDRESS_WINDOW_MS', 30_000) },
     // One calculator across all its visitors: a burst of 600, then 100 a second.
     perToken: { limit: envNumber('PARTWISE_SCORE_TOKEN_BURST', 600), windowMs: envNumber('PARTWISE_SCORE_TOKEN_WINDOW_MS', 6_000) },
+    embedCacheMs: envNumber('PARTWISE_EMBED_CACHE_MS', 2000, true),
+    allowanceCacheMs: envNumber('PARTWISE_ALLOWANCE_CACHE_MS', 2000, true),
   };
+}
+
+const REREAD_MS = 1000;
+let snapshot: { readAt: number; settings: ScoringSettings } | null = null;
+
+export function scoringSettings(now = Date.now()): ScoringSettings {
+  if (!snapshot || now - snapshot.readAt >= REREAD_MS || now < snapshot.readAt) snapshot = { readAt: now, settings: readSettings() };
+  return snapshot.settings;
+}
+
+export function rereadScoringSettings(): void {
+  snapshot = null;
+}
+
+export function scoringLimits(): { perAddress: LimitOptions; perToken: LimitOptions } {
+  return scoringSettings();
 }
 
 /** Abuse reports: five from one address, then one every two minutes. */

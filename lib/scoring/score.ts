@@ -3,7 +3,7 @@ import { scoreRow } from '@/lib/mixture';
 import { clientAddress } from '@/lib/audit';
 import { callerOrigin } from '@/lib/embeds/origins';
 import { AppError } from '@/lib/errors';
-import { readJson } from '@/lib/http/handler';
+import { readJson, type BodySource } from '@/lib/http/handler';
 import { recordAnswer } from '@/lib/usage';
 import { answerState } from './allowance';
 import { takeToken } from '@/lib/rate-limit';
@@ -26,8 +26,28 @@ export const MAX_SCORE_BODY_BYTES = 4 * 1024;
 
 const bodySchema = z.object({ values: z.unknown() }).strict();
 
-export function ownOrigins(request: Request): string[] {
-  const list = [new URL(request.url).origin];
+/** The token in the route's address. */
+export const scoreTokenParam = z.object({ token: z.string().max(64) });
+
+/**
+ * What the scoring flow reads of a call. The Next route builds it from a web Request
+ * (`scoreCallFrom`); the server's fast path (lib/server) from node's request, so both
+ * run this one flow.
+ */
+export interface ScoreCall extends BodySource {
+  /** The client's address as the server saw it (see lib/server: forwarded headers are only trusted behind a configured proxy). */
+  address: string | null;
+  /** The origin the request came to (scheme, host, port). */
+  requestOrigin: string;
+}
+
+export function scoreCallFrom(request: Request): ScoreCall {
+  return { headers: request.headers, text: () => request.text(), address: clientAddress(request), requestOrigin: new URL(request.url).origin };
+}
+
+/** This app's own origins: the one the request came to, and NEXTAUTH_URL's. */
+export function ownOrigins(requestOrigin: string): string[] {
+  const list = [requestOrigin];
   const configured = process.env.NEXTAUTH_URL;
   if (configured) {
     try {
@@ -42,14 +62,14 @@ export function ownOrigins(request: Request): string[] {
  * own origin; a host page calling directly must be on the embed's list. Calls without
  * either header (servers, scripts) are allowed and rate-limited like the rest.
  */
-export function checkCaller(request: Request, embed: ServedEmbed): string | null {
-  const origin = callerOrigin(request.headers);
+export function checkCaller(call: ScoreCall, embed: ServedEmbed): string | null {
+  const origin = callerOrigin(call.headers);
   if (origin === null) return null;
-  if (ownOrigins(request).includes(origin) || embed.allowedOrigins.includes(origin)) return origin;
+  if (ownOrigins(call.requestOrigin).includes(origin) || embed.allowedOrigins.includes(origin)) return origin;
   throw new AppError('forbidden', 'This calculator does not answer requests from this website.');
 }
 
-export function corsHeaders(request: Request, embed: ServedEmbed | null): Record<string, string> {
+export function corsHeaders(request: { headers: { get(name: string): string | null } }, embed: ServedEmbed | null): Record<string, string> {
   const origin = callerOrigin(request.headers);
   const headers: Record<string, string> = { Vary: 'Origin' };
   if (embed && origin && embed.allowedOrigins.includes(origin)) headers['Access-Control-Allow-Origin'] = origin;
@@ -61,21 +81,21 @@ function limited(retryAfterSeconds: number, what: string): AppError {
 }
 
 /** The public scoring flow: cheap refusals first, then validation, then the engine. */
-export async function scoreForToken(token: string, request: Request): Promise<{ answer: ScoreAnswer; embed: ServedEmbed }> {
+export async function scoreForToken(token: string, call: ScoreCall): Promise<{ answer: ScoreAnswer; embed: ServedEmbed }> {
   const rules = scoringLimits();
-  const address = clientAddress(request) ?? 'unknown';
+  const address = call.address ?? 'unknown';
   const byAddress = takeToken(`score:addr:${address}`, rules.perAddress);
   if (!byAddress.ok) throw limited(byAddress.retryAfterSeconds, 'from your network');
 
   const embed = await loadServedEmbed(token);
   if (!embed) throw new AppError('not_found', 'There is no calculator at this address.');
   if (!isServing(embed)) throw new AppError('gone', 'This calculator is not available.');
-  checkCaller(request, embed);
+  checkCaller(call, embed);
 
   const byToken = takeToken(`score:token:${embed.id}`, rules.perToken);
   if (!byToken.ok) throw limited(byToken.retryAfterSeconds, 'for this calculator right now');
 
-  const body = await readJson(request, bodySchema, { maxBytes: MAX_SCORE_BODY_BYTES });
+  const body = await readJson(call, bodySchema, { maxBytes: MAX_SCORE_BODY_BYTES });
   const version = await loadServedVersion(embed.activeVersionId!);
   const values = parseValues(version, body.values);
 
@@ -85,7 +105,7 @@ export async function scoreForToken(token: string, request: Request): Promise<{ 
 
   const row = version.payload.fields.map((f) => values[f.feature]);
   const score = scoreRow(version.engine, row, { unusualBelow: embed.typicalityThreshold });
-  await recordAnswer(embed);
+  recordAnswer(embed);
 
   const clusters = version.payload.clusters;
   const answer: ScoreAnswer = {

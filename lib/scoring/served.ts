@@ -3,6 +3,7 @@ import { parseModelJson, type MixtureModel as EngineModel } from '@/lib/mixture'
 import { readStoredPayload, type VersionPayload } from '@/lib/embeds/payload';
 import { AppError, type FieldIssue } from '@/lib/errors';
 import { Embed, ModelVersion, Workspace, type FieldSetting } from '@/models';
+import { rereadScoringSettings, scoringSettings } from './limits';
 
 /**
  * What the public routes need about an embed, cached per token for a moment. Status is
@@ -37,28 +38,31 @@ export interface ServedVersion {
 interface ScoringCaches {
   embeds: Map<string, ServedEmbed>;
   versions: Map<number, ServedVersion>;
+  /** Lookups under way, so many answers arriving as an entry expires share one query. */
+  loading: Map<string, Promise<ServedEmbed | null>>;
 }
 
 const caches = ((globalThis as Record<symbol, unknown>)[Symbol.for('partwise.scoringCaches')] ??= {
   embeds: new Map(),
   versions: new Map(),
+  loading: new Map(),
 }) as ScoringCaches;
+caches.loading ??= new Map();
 
 const MAX_VERSIONS = 256;
 
-function embedTtlMs(): number {
-  const v = Number(process.env.PARTWISE_EMBED_CACHE_MS);
-  return Number.isFinite(v) && v >= 0 ? v : 2000;
-}
 
 /** Forget what this process knows about an embed (by token or id) so the next call reads it fresh. */
 export function invalidateEmbed(tokenOrId: string | number): void {
+  // A lookup under way may have read the old row; it must not fill the cache.
+  caches.loading.clear();
   if (typeof tokenOrId === 'string') caches.embeds.delete(tokenOrId);
   for (const [token, e] of caches.embeds) if (e.id === tokenOrId || e.token === tokenOrId) caches.embeds.delete(token);
 }
 
 /** After a workspace is suspended or restored: forget all its embeds at once. */
 export function invalidateWorkspace(workspaceId: number): void {
+  caches.loading.clear();
   for (const [token, e] of caches.embeds) if (e.workspaceId === workspaceId) caches.embeds.delete(token);
 }
 
@@ -68,12 +72,27 @@ export const TOKEN_SHAPE = /^[A-Za-z0-9_-]{10,64}$/;
 export async function loadServedEmbed(token: string, now = Date.now()): Promise<ServedEmbed | null> {
   if (!TOKEN_SHAPE.test(token)) return null;
   const hit = caches.embeds.get(token);
-  if (hit && now - hit.loadedAt < embedTtlMs()) return hit;
-  const embed = await Embed.findOne({ where: { token } });
-  if (!embed) {
-    caches.embeds.delete(token);
-    return null;
+  if (hit && now - hit.loadedAt < scoringSettings(now).embedCacheMs) return hit;
+  const under = caches.loading.get(token);
+  if (under) return under;
+  const load = readServedEmbed(token, now);
+  caches.loading.set(token, load);
+  try {
+    const served = await load;
+    // Only the lookup still registered may fill the cache (an invalidation clears the register).
+    if (caches.loading.get(token) === load) {
+      if (served) caches.embeds.set(token, served);
+      else caches.embeds.delete(token);
+    }
+    return served;
+  } finally {
+    if (caches.loading.get(token) === load) caches.loading.delete(token);
   }
+}
+
+async function readServedEmbed(token: string, now: number): Promise<ServedEmbed | null> {
+  const embed = await Embed.findOne({ where: { token } });
+  if (!embed) return null;
   const workspace = await Workspace.findByPk(embed.workspaceId, { attributes: ['id', 'suspendedAt'] });
   const served: ServedEmbed = {
     id: embed.id,
@@ -89,7 +108,6 @@ export async function loadServedEmbed(token: string, now = Date.now()): Promise<
     accentColor: embed.accentColor,
     loadedAt: now,
   };
-  caches.embeds.set(token, served);
   return served;
 }
 
@@ -147,6 +165,8 @@ export function parseValues(version: ServedVersion, values: unknown): Record<str
 
 /** Test hook: start with empty caches. */
 export function clearScoringCaches(): void {
+  rereadScoringSettings();
+  caches.loading.clear();
   caches.embeds.clear();
   caches.versions.clear();
 }

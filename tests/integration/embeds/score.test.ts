@@ -4,8 +4,8 @@ import { POST as publishRoute } from '@/app/api/embeds/route';
 import { OPTIONS as preflightRoute, POST as scoreRoute } from '@/app/api/score/[token]/route';
 import { parseModelJson, scoreRow } from '@/lib/mixture';
 import { rateLimitTesting } from '@/lib/rate-limit';
-import { clearScoringCaches, invalidateAllowance, invalidateEmbed } from '@/lib/scoring';
-import { embedMonthlyAnswers, monthPeriod } from '@/lib/usage';
+import { clearScoringCaches, invalidateAllowance, invalidateEmbed, rereadScoringSettings } from '@/lib/scoring';
+import { embedMonthlyAnswers, flushUsage, monthPeriod } from '@/lib/usage';
 import { Embed, ModelVersion, UsageCounter, Workspace } from '@/models';
 import { modelWorkspace } from './fixtures';
 
@@ -54,6 +54,7 @@ describe('scoring a visitor\'s values', () => {
     expect(answer.threshold).toBe(1);
     expect(answer.unusual).toBe(false);
     expect(await embedMonthlyAnswers(embedId)).toBe(before + 1);
+    await flushUsage();
     const hour = await UsageCounter.findOne({ where: { embedId, granularity: 'hour' } });
     expect(hour?.count).toBeGreaterThan(0);
   });
@@ -130,17 +131,20 @@ describe('scoring a visitor\'s values', () => {
 
     process.env.PARTWISE_SCORE_TOKEN_BURST = '5';
     try {
+      rereadScoringSettings();
       rateLimitTesting.clear();
       const statuses: number[] = [];
       for (let i = 0; i < 7; i++) statuses.push((await post({ values: good }, from(`198.51.100.${i}`))).status);
       expect(statuses).toEqual([200, 200, 200, 200, 200, 429, 429]);
     } finally {
       delete process.env.PARTWISE_SCORE_TOKEN_BURST;
+      rereadScoringSettings();
     }
   });
 
   it('answers 410 at once when staff disable the embed or suspend the workspace (with the invalidation hook)', async () => {
     process.env.PARTWISE_EMBED_CACHE_MS = '600000';
+    rereadScoringSettings();
     try {
       expect((await post({ values: good })).status).toBe(200);
       await Embed.update({ status: 'disabled', disabledReason: 'abuse', disabledAt: new Date() }, { where: { id: embedId } });
@@ -160,10 +164,12 @@ describe('scoring a visitor\'s values', () => {
       expect((await post({ values: good })).status).toBe(200);
     } finally {
       delete process.env.PARTWISE_EMBED_CACHE_MS;
+      rereadScoringSettings();
     }
   });
 
   it('pauses calmly with 503 when the month\'s answers are used up', async () => {
+    await flushUsage();
     await UsageCounter.update({ count: 1_000_000 }, { where: { embedId, granularity: 'month', period: monthPeriod() } });
     invalidateAllowance(ws.workspace.id);
     const res = await post({ values: good });

@@ -1,19 +1,21 @@
-import { z } from 'zod';
 import { AppError } from '@/lib/errors';
 import { readParams, route } from '@/lib/http/handler';
-import { corsHeaders, loadServedEmbed, scoreForToken } from '@/lib/scoring';
+import { corsHeaders, loadServedEmbed, scoreCallFrom, scoreForToken, scoreTokenParam } from '@/lib/scoring';
 
 type Ctx = { params: Promise<{ token: string }> };
-const tokenParam = z.object({ token: z.string().max(64) });
 
-/** Public: score one visitor's values against the version the token serves. */
+/**
+ * Public: score one visitor's values against the version the token serves. The app
+ * server (lib/server) answers this path itself before Next's router, through the same
+ * flow; this handler serves `next dev`, tests, and any host that runs plain `next start`.
+ */
 export async function POST(request: Request, context: Ctx): Promise<Response> {
   let cors: Record<string, string> = { Vary: 'Origin' };
   const response = await route<Ctx>(async (req, { params }) => {
-    const { token } = await readParams(params, tokenParam);
+    const { token } = await readParams(params, scoreTokenParam);
     // Headers first, so an allowed host page can read refusals too (the lookup is cached).
     cors = corsHeaders(req, await loadServedEmbed(token).catch(() => null));
-    const { answer } = await scoreForToken(token, req);
+    const { answer } = await scoreForToken(token, scoreCallFrom(req));
     return Response.json(answer, { headers: { 'Cache-Control': 'no-store' } });
   }, { origin: 'any' })(request, context);
   for (const [k, v] of Object.entries(cors)) response.headers.set(k, v);
@@ -23,7 +25,7 @@ export async function POST(request: Request, context: Ctx): Promise<Response> {
 
 /** CORS preflight for host pages on the embed's allowed origins that call the route directly. */
 export const OPTIONS = route<Ctx>(async (request, { params }) => {
-  const { token } = await readParams(params, tokenParam);
+  const { token } = await readParams(params, scoreTokenParam);
   const embed = await loadServedEmbed(token);
   if (!embed) throw new AppError('not_found', 'There is no calculator at this address.');
   const cors = corsHeaders(request, embed);

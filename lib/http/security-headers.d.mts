@@ -1,0 +1,3 @@
+export function appPolicy(opts: { charts: boolean }): string;
+export function apiHeaders(): { key: string; value: string }[];
+export function unframedHeaders(): { key: string; value: string }[];

@@ -1,0 +1,63 @@
+/**
+ * The app's own security headers, in one place for next.config.mjs (every page and
+ * route Next serves) and the app server's fast path (lib/server), which answers the
+ * scoring route before Next's router. Plain ESM so next.config.mjs can import it.
+ */
+
+/**
+ * The app's own Content-Security-Policy (every page but the calculator).
+ * - script-src 'unsafe-inline': Next's App Router streams its bootstrap and flight data
+ *   as inline <script> tags; without a per-request nonce (which would make every page
+ *   dynamic) they need it. No host but our own may serve scripts.
+ * - 'unsafe-eval' only where vega charts run (studio, support): vega compiles chart
+ *   expressions with the Function constructor. The dev server needs it everywhere.
+ * - style-src 'unsafe-inline': React and vega write style attributes.
+ * @param {{ charts: boolean }} opts
+ * @returns {string}
+ */
+export function appPolicy({ charts }) {
+  const evalAllowed = charts || process.env.NODE_ENV !== 'production';
+  return [
+    "default-src 'self'",
+    `script-src 'self' 'unsafe-inline'${evalAllowed ? " 'unsafe-eval'" : ''}`,
+    "style-src 'self' 'unsafe-inline'",
+    "img-src 'self' data: blob:",
+    "font-src 'self'",
+    "connect-src 'self'",
+    // the studio previews its calculators in an iframe of our own origin
+    "frame-src 'self'",
+    "frame-ancestors 'none'",
+    // forms post only to us; checkout leaves by navigation (location.assign), not a form
+    "form-action 'self'",
+    "base-uri 'self'",
+    "object-src 'none'",
+    "worker-src 'self' blob:",
+    "manifest-src 'self'",
+  ].join('; ');
+}
+
+/**
+ * Headers of JSON route handlers: nothing in a JSON answer may load or run anything.
+ * @returns {{ key: string, value: string }[]}
+ */
+export function apiHeaders() {
+  return [
+    { key: 'X-Frame-Options', value: 'DENY' },
+    { key: 'Content-Security-Policy', value: "default-src 'none'; frame-ancestors 'none'" },
+    { key: 'X-Content-Type-Options', value: 'nosniff' },
+    { key: 'Referrer-Policy', value: 'strict-origin-when-cross-origin' },
+  ];
+}
+
+/**
+ * Headers of everything that is never framed (all but the calculator page).
+ * @returns {{ key: string, value: string }[]}
+ */
+export function unframedHeaders() {
+  return [
+    { key: 'X-Frame-Options', value: 'DENY' },
+    { key: 'Content-Security-Policy', value: appPolicy({ charts: false }) },
+    { key: 'X-Content-Type-Options', value: 'nosniff' },
+    { key: 'Referrer-Policy', value: 'strict-origin-when-cross-origin' },
+  ];
+}

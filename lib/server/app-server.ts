@@ -1,0 +1,68 @@
+import http from 'node:http';
+import { flushUsage, pendingAnswers } from '@/lib/usage';
+import { settleForwarding, trustsProxy } from './forwarding';
+import { productionSettingProblems } from './settings';
+import { answerScore, scoringToken } from './score-fast-path';
+
+/**
+ * The production HTTP server: Next's request handler behind a node:http server that
+ * settles forwarded headers for every request and answers the public scoring route
+ * itself (see score-fast-path.ts). On SIGTERM/SIGINT it stops accepting, lets requests
+ * in flight finish, writes the usage counts still in memory, and exits.
+ */
+export interface AppServerOptions {
+  port: number;
+  host: string;
+  dev?: boolean;
+}
+
+export async function startAppServer({ port, host, dev = false }: AppServerOptions): Promise<http.Server> {
+  const problems = dev ? [] : productionSettingProblems();
+  if (problems.length) {
+    throw new Error(`the production server is not configured:\n${problems.map((p) => `  - ${p}`).join('\n')}`);
+  }
+  const { default: next } = await import('next');
+  const app = next({ dev, hostname: host, port, dir: process.cwd() });
+  const handle = app.getRequestHandler();
+  await app.prepare();
+
+  // Read once: a proxy in front is a deployment fact, not something that changes per request.
+  const trustProxy = trustsProxy();
+  const server = http.createServer((req, res) => {
+    const client = settleForwarding(req, trustProxy);
+    // `next dev` recompiles the route on edits; the fast path would keep serving the old code.
+    const token = dev ? null : scoringToken(req);
+    const work = token !== null ? answerScore(req, res, token, client) : handle(req, res);
+    Promise.resolve(work).catch((error) => {
+      console.error('[partwise] request failed:', req.method, req.url, error);
+      if (!res.headersSent) res.writeHead(500, { 'Content-Type': 'application/json' });
+      res.end(JSON.stringify({ error: { code: 'internal', message: 'Something went wrong on our side. Please try again.' } }));
+    });
+  });
+  await new Promise<void>((resolve, reject) => {
+    server.once('error', reject);
+    server.listen(port, host, () => resolve());
+  });
+
+  let stopping = false;
+  const stop = async (signal: string) => {
+    if (stopping) return;
+    stopping = true;
+    console.log(`[partwise] ${signal}: stopping; ${pendingAnswers()} answer count(s) to write`);
+    server.close();
+    server.closeIdleConnections();
+    // Requests in flight get a moment; a stuck one must not keep the counts from disk.
+    await new Promise((r) => setTimeout(r, 500).unref());
+    server.closeAllConnections();
+    try {
+      await flushUsage();
+    } catch (e) {
+      console.error('[partwise] could not write the last usage counts:', (e as Error).message);
+      process.exit(1);
+    }
+    process.exit(0);
+  };
+  process.on('SIGTERM', () => void stop('SIGTERM'));
+  process.on('SIGINT', () => void stop('SIGINT'));
+  return server;
+}
