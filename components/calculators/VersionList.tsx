@@ -10,6 +10,8 @@ interface Version {
   modelName: string;
   checksum: string;
   createdAt: string;
+  /** What is wrong with the stored version, when it is damaged. */
+  problem: string | null;
 }
 
 /** Published versions, newest first: which one is served, switch to another, publish again. */
@@ -44,13 +46,22 @@ export function VersionList({ embedId, versions, activeVersionId, models, curren
         <tbody>
           {versions.map((v) => (
             <tr key={v.id} className="border-b border-ink/5">
-              <td className="py-2 pr-3 font-bold">v{v.number}</td>
+              <td className="py-2 pr-3 font-bold">
+                v{v.number}
+                {v.problem && (
+                  <span className="ml-2 rounded-full bg-clay-100 px-2 py-0.5 text-xs font-bold text-clay-700" title={`This version is damaged: ${v.problem}.`}>
+                    Damaged
+                  </span>
+                )}
+              </td>
               <td className="py-2 pr-3">{v.modelName}</td>
               <td className="py-2 pr-3 text-ink-soft">{new Date(v.createdAt).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' })}</td>
               <td className="hidden py-2 pr-3 font-mono text-xs text-ink-faint md:table-cell" title={v.checksum}>{v.checksum.slice(0, 12)}…</td>
               <td className="py-2 text-right">
                 {v.id === activeVersionId ? (
                   <span className="rounded-full bg-moss-100 px-3 py-1 text-xs font-bold text-moss-700">Served</span>
+                ) : v.problem ? (
+                  <span className="text-xs text-ink-faint">Cannot be served</span>
                 ) : (
                   <button type="button" className="pw-button-quiet" disabled={busy || disabled} onClick={() => run(`/api/embeds/${embedId}/active-version`, 'PUT', { versionId: v.id })}>
                     Serve v{v.number}

@@ -81,15 +81,36 @@ export function validatePayload(payload: VersionPayload): EngineModel {
   return engine;
 }
 
+type StoredVersion = { id: number; payload: unknown; checksum: string };
+
 /**
- * Read a stored version back. A checksum that does not match means the row was changed
- * or damaged after publishing; it is refused (and logged) rather than scored.
+ * What is wrong with a stored version, in words for its owner, or null when it is sound.
+ * A checksum that does not match means the row was changed or damaged after publishing;
+ * a model the engine cannot read would fail every answer.
  */
-export function readStoredPayload(version: { id: number; payload: unknown; checksum: string }): VersionPayload {
-  const raw = (typeof version.payload === 'string' ? JSON.parse(version.payload) : version.payload) as VersionPayload;
-  if (payloadChecksum(raw) !== version.checksum) {
-    console.error(`[partwise] model version ${version.id} fails its checksum; refusing to serve it.`);
+export function storedPayloadProblem(version: StoredVersion): string | null {
+  let raw: VersionPayload;
+  try {
+    raw = (typeof version.payload === 'string' ? JSON.parse(version.payload) : version.payload) as VersionPayload;
+  } catch {
+    return 'its stored content is not readable JSON';
+  }
+  if (!raw || typeof raw !== 'object') return 'its stored content is missing';
+  if (payloadChecksum(raw) !== version.checksum) return 'its stored content no longer matches the checksum it was published with';
+  try {
+    parseModelJson(raw.model);
+  } catch (e) {
+    return `its model cannot be read (${e instanceof MixtureError ? e.message : 'unexpected shape'})`;
+  }
+  return null;
+}
+
+/** Read a stored version back; a damaged one is refused (and logged) rather than scored. */
+export function readStoredPayload(version: StoredVersion): VersionPayload {
+  const problem = storedPayloadProblem(version);
+  if (problem) {
+    console.error(`[partwise] model version ${version.id} is damaged (${problem}); refusing to serve it.`);
     throw new AppError('unavailable', 'This calculator is temporarily unavailable.');
   }
-  return raw;
+  return (typeof version.payload === 'string' ? JSON.parse(version.payload) : version.payload) as VersionPayload;
 }

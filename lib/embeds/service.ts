@@ -6,7 +6,7 @@ import { invalidateEmbed } from '@/lib/scoring/served';
 import { Embed, MixtureModel, ModelVersion, sequelize, type User, type Workspace } from '@/models';
 import { assertCanPublish } from '@/lib/billing/limits';
 import { allowedOriginsSchema } from './origins';
-import { payloadChecksum, validatePayload, type VersionPayload } from './payload';
+import { payloadChecksum, storedPayloadProblem, validatePayload, type VersionPayload } from './payload';
 
 /**
  * Publishing and managing calculators. Each function takes the acting user and their
@@ -109,6 +109,8 @@ export async function setActiveVersion(acting: Acting, embedId: number, versionI
   if (embed.status === 'retired') throw new AppError('conflict', 'This calculator is retired.');
   const version = await ModelVersion.findOne({ where: { id: versionId, embedId: embed.id } });
   if (!version) throw new AppError('not_found', 'This calculator has no such version.');
+  const problem = storedPayloadProblem(version);
+  if (problem) throw new AppError('conflict', `Version ${version.number} cannot be served: ${problem}. Serve another version or publish a new one.`);
   const previous = embed.activeVersionId;
   await embed.update({ activeVersionId: version.id });
   invalidateEmbed(embed.id);

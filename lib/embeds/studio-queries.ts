@@ -2,6 +2,7 @@ import 'server-only';
 import { Op } from 'sequelize';
 import { AppError } from '@/lib/errors';
 import { embedMonthlyAnswers } from '@/lib/usage';
+import { storedPayloadProblem } from './payload';
 import { Embed, MixtureModel, ModelVersion } from '@/models';
 
 /** Read models for the studio's calculator pages (the role check happens in the page). */
@@ -31,7 +32,8 @@ export async function calculatorDetail(workspaceId: number, id: number) {
   const embed = await Embed.findOne({ where: { id, workspaceId } });
   if (!embed) throw new AppError('not_found', 'There is no such calculator in this workspace.');
   const [versions, models, answersThisMonth] = await Promise.all([
-    ModelVersion.findAll({ where: { embedId: embed.id }, attributes: ['id', 'number', 'mixtureModelId', 'checksum', 'createdAt'], order: [['number', 'DESC']] }),
+    // The payloads are read to check each version the way the scoring route will.
+    ModelVersion.findAll({ where: { embedId: embed.id }, attributes: ['id', 'number', 'mixtureModelId', 'payload', 'checksum', 'createdAt'], order: [['number', 'DESC']] }),
     MixtureModel.findAll({ where: { workspaceId }, attributes: ['id', 'name'], order: [['createdAt', 'DESC']] }),
     embedMonthlyAnswers(embed.id),
   ]);
@@ -50,7 +52,7 @@ export async function calculatorDetail(workspaceId: number, id: number) {
       accentColor: embed.accentColor,
       typicalityThreshold: embed.typicalityThreshold,
     },
-    versions: versions.map((v) => ({ id: v.id, number: v.number, modelName: v.mixtureModelId ? (modelName.get(v.mixtureModelId) ?? 'a removed model') : '—', checksum: v.checksum, createdAt: v.createdAt.toISOString() })),
+    versions: versions.map((v) => ({ id: v.id, number: v.number, modelName: v.mixtureModelId ? (modelName.get(v.mixtureModelId) ?? 'a removed model') : '—', checksum: v.checksum, createdAt: v.createdAt.toISOString(), problem: storedPayloadProblem(v) })),
     models: models.map((m) => ({ id: m.id, name: m.name })),
     answersThisMonth,
   };

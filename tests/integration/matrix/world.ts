@@ -1,6 +1,7 @@
 import { buildModel, parseNumericTable, selectMixture, toModelJson } from '@/lib/mixture';
 import { demoRidesCsv } from '@/lib/demo/cycling';
 import { parseCsvText } from '@/lib/datasets/parse';
+import { payloadChecksum, type VersionPayload } from '@/lib/embeds/payload';
 import { Dataset, Embed, Fit, Membership, MixtureModel, ModelVersion, Subscription, User, Workspace } from '@/models';
 import type { World } from './types';
 
@@ -33,7 +34,8 @@ export async function buildWorld(): Promise<World> {
   const fields = features.map((f, j) => ({ feature: f, label: f, unit: '', min: engineModel.features[j].min, max: engineModel.features[j].max, help: '' }));
   const model = await MixtureModel.create({ workspaceId: a.id, fitId: fit.id, datasetId: dataset.id, createdById: owner.id, name: 'Ride groups', model: modelJson, clusters, fields });
   const embed = await Embed.create({ workspaceId: a.id, mixtureModelId: model.id, token: 'MatrixToken_abcdefghijklmn', title: 'Ride groups', allowedOrigins: ['http://host.test'] });
-  const version = await ModelVersion.create({ embedId: embed.id, mixtureModelId: model.id, createdById: owner.id, number: 1, payload: { model: modelJson, clusters, fields, caution: '' }, checksum: '0'.repeat(64) });
+  const payload = { model: modelJson, clusters, fields, caution: '' };
+  const version = await ModelVersion.create({ embedId: embed.id, mixtureModelId: model.id, createdById: owner.id, number: 1, payload, checksum: payloadChecksum(payload as VersionPayload) });
   await embed.update({ activeVersionId: version.id });
 
   const u = (x: User) => ({ id: x.id, email: x.email });

@@ -9,7 +9,7 @@ import { SnippetBox } from '@/components/calculators/SnippetBox';
 import { StatusPill } from '@/components/calculators/StatusPill';
 import { TokenActions } from '@/components/calculators/TokenActions';
 import { VersionList } from '@/components/calculators/VersionList';
-import { Section, StudioPage } from '@/components/studio/StudioPage';
+import { ErrorNote, Section, StudioPage } from '@/components/studio/StudioPage';
 
 export const metadata: Metadata = { title: 'Calculator' };
 export const dynamic = 'force-dynamic';
@@ -39,6 +39,7 @@ export default async function CalculatorPage({ params }: { params: Promise<{ id:
   const loaderSnippet = `<div data-partwise-calculator="${embed.token}" data-partwise-title="${title}"></div>\n<script src="${origin}/embed.js" async></script>`;
   const iframeSnippet = `<iframe src="${origin}/embed/${embed.token}" title="${title}"\n  style="width:100%;height:640px;border:0" loading="lazy"></iframe>`;
   const retired = embed.status === 'retired';
+  const served = versions.find((v) => v.id === embed.activeVersionId);
 
   return (
     <StudioPage
@@ -52,6 +53,11 @@ export default async function CalculatorPage({ params }: { params: Promise<{ id:
         </span>
       }
     >
+      {served?.problem && (
+        <div className="mb-8">
+          <ErrorNote message={`Version ${served.number}, which this calculator serves, is damaged: ${served.problem}. Visitors see “not available” until you serve another version or publish a new one (Versions, below).`} />
+        </div>
+      )}
       <div className="grid gap-8 lg:grid-cols-[minmax(0,1fr)_minmax(0,26rem)]">
         <div className="space-y-8">
           <Section title="Put it on your website" id="snippet" lead="Paste one of these where the calculator should appear. The page must be on one of the allowed websites below.">
