@@ -1,6 +1,6 @@
 import path from 'node:path';
 import fs from 'node:fs';
-import { Sequelize } from 'sequelize';
+import { Sequelize, Transaction } from 'sequelize';
 
 /**
  * The one database connection module. SQLite in WAL mode with a busy timeout, so
@@ -38,6 +38,10 @@ function createSequelize(storage: string): Sequelize {
     define: { underscored: true, timestamps: true },
     // The busy timeout is the one wait; Sequelize's default five retries would stretch it fivefold.
     retry: { max: 1 },
+    // Take the write lock when a transaction begins: a DEFERRED one that reads and then
+    // writes fails at once with SQLITE_BUSY under WAL if another connection wrote in
+    // between, and the busy timeout cannot help it. IMMEDIATE waits its turn instead.
+    transactionType: Transaction.TYPES.IMMEDIATE,
   });
   // The sqlite dialect has no connect hook, and transactions open handles of their
   // own, so every handle gets the pragmas the moment the dialect hands it out.
