@@ -143,6 +143,8 @@ async function main() {
       cannon({ url: `${APP}/embed/${seeded.token}`, connections: Math.max(4, CONNECTIONS / 4), duration: DURATION }),
     ]);
 
+    // Answers are counted in memory and written every 250 ms (lib/usage): let the last flush land.
+    await new Promise((r) => setTimeout(r, 1000));
     const fitNow = (await (await fetch(`${APP}/api/fits/${fitBody.fit.id}`, { headers: { cookie: seeded.cookie } })).json()) as { fit: { status: string; progress?: { fraction?: number } } };
     const after = await usageCount(env, seeded.embedId);
     const answered = okCount(scoring) + 1; // + the warm-up answer
@@ -162,7 +164,7 @@ async function main() {
     const EXACT = Number(arg('exact', '1500'));
     await fetch(`${APP}/api/fits`, { method: 'POST', headers: { 'content-type': 'application/json', cookie: seeded.cookie }, body: JSON.stringify({ datasetId: seeded.datasetId, features: seeded.features, minComponents: 1, maxComponents: 10, covariances: ['full', 'tied'], restarts: 10, seed: 8, maxIter: 1000, tol: 1e-7 }) });
     const exact = await cannon({ url: `${APP}/api/score/${seeded.token}`, method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ values: VALUES }), connections: CONNECTIONS, amount: EXACT });
-    await new Promise((r) => setTimeout(r, 500));
+    await new Promise((r) => setTimeout(r, 1000));
     const final = await usageCount(env, seeded.embedId);
     line('scoring (exact)', exact);
     const exactMonth = final.month - after.month;
