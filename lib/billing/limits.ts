@@ -14,7 +14,8 @@ import { Embed, Membership, Subscription, User, Workspace, sequelize } from '@/m
  */
 
 /** Subscription states in which the paid plan is in force (past_due keeps it while the service retries the card). */
-const PLAN_IN_FORCE = new Set(['active', 'trialing', 'past_due']);
+export const PLAN_IN_FORCE_STATUSES = ['active', 'trialing', 'past_due'] as const;
+const PLAN_IN_FORCE = new Set<string>(PLAN_IN_FORCE_STATUSES);
 
 /** The plan whose limits apply to a workspace right now. */
 export async function workspacePlan(workspaceId: number, transaction?: Transaction): Promise<Plan> {

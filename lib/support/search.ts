@@ -1,4 +1,5 @@
 import { QueryTypes } from 'sequelize';
+import { PLAN_IN_FORCE_STATUSES } from '@/lib/billing/limits';
 import { DEFAULT_PLAN, PLAN_IDS, getPlan } from '@/lib/plans';
 import { flushUsage, monthPeriod } from '@/lib/usage';
 import { sequelize } from '@/models';
@@ -75,8 +76,8 @@ export function searchTerm(q: string): string {
   return trimmed.toLowerCase();
 }
 
-// Mirrors lib/billing's rule: a paid plan is in force only while the subscription is.
-const PLAN_SQL = `CASE WHEN s.status IN ('active', 'trialing', 'past_due') THEN s.plan ELSE :defaultPlan END`;
+// Billing's rule (lib/billing/limits) in SQL: the paid plan only while its subscription is in force.
+const PLAN_SQL = `CASE WHEN s.status IN (${PLAN_IN_FORCE_STATUSES.map((s) => `'${s}'`).join(', ')}) THEN s.plan ELSE :defaultPlan END`;
 const PLAN_RANK_SQL = `CASE ${PLAN_IDS.map((id, i) => `WHEN ${PLAN_SQL} = '${id}' THEN ${i}`).join(' ')} ELSE 0 END`;
 const OPEN_REPORTS_SQL = `(SELECT COUNT(*) FROM abuse_reports r WHERE r.embed_id = e.id AND r.status = 'open')`;
 const LAST_HOUR_SQL = `(COALESCE(uh.count, 0) + COALESCE(up.count, 0) * :previousWeight)`;
