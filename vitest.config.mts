@@ -13,7 +13,8 @@ const alias = {
 /**
  * Three levels: unit (lib, no I/O beyond temp files), integration (route handlers
  * against a real SQLite file and the local fakes), browser (Chromium against the
- * built app that scripts/test.ts starts).
+ * built app that scripts/test.ts starts); beside them, system tests that start, kill
+ * and restart app server processes of their own (on the same build).
  */
 export default defineConfig({
   resolve: { alias },
@@ -33,6 +34,18 @@ export default defineConfig({
           setupFiles: ['tests/setup/integration-db.ts'],
           testTimeout: 60_000,
           hookTimeout: 60_000,
+        },
+      },
+      {
+        resolve: { alias },
+        test: {
+          // Whole server processes a test starts, kills and restarts on a database of its own.
+          name: 'system',
+          include: ['tests/system/**/*.test.ts'],
+          environment: 'node',
+          testTimeout: 180_000,
+          hookTimeout: 180_000,
+          fileParallelism: false,
         },
       },
       {
