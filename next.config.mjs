@@ -1,4 +1,4 @@
-import { apiHeaders, appPolicy, unframedHeaders } from './lib/http/security-headers.mjs';
+import { apiHeaders, unframedHeaders } from './lib/http/security-headers.mjs';
 
 /** @type {import('next').NextConfig} */
 const nextConfig = {
@@ -16,11 +16,6 @@ const nextConfig = {
         source: '/((?!embed/).*)',
         headers: unframedHeaders(),
       },
-      // Studio and support pages draw vega charts; a later match overrides the key above.
-      ...['/studio', '/studio/:path*', '/support', '/support/:path*'].map((source) => ({
-        source,
-        headers: [{ key: 'Content-Security-Policy', value: appPolicy({ charts: true }) }],
-      })),
       // JSON routes: a policy that lets nothing load (their answers are data, never pages).
       { source: '/api/:path*', headers: apiHeaders() },
       {

@@ -2,6 +2,7 @@
 
 import { VegaEmbed } from 'react-vega';
 import type { VisualizationSpec } from 'vega-embed';
+import { expressionInterpreter } from 'vega-interpreter';
 
 /** Partwise's chart look: our fonts and ink colours, no export menu, SVG for crisp text. */
 const CONFIG = {
@@ -16,7 +17,8 @@ export function VegaChart({ spec, label, className }: { spec: Record<string, unk
   const full = { $schema: 'https://vega.github.io/schema/vega-lite/v6.json', config: CONFIG, ...spec } as VisualizationSpec;
   return (
     <figure className={className} aria-label={label} role="img">
-      <VegaEmbed spec={full} options={{ actions: false, renderer: 'svg', tooltip: true }} className="w-full" />
+      {/* ast + interpreter: chart expressions run without eval, so the pages keep a CSP without 'unsafe-eval' */}
+      <VegaEmbed spec={full} options={{ actions: false, renderer: 'svg', tooltip: true, ast: true, expr: expressionInterpreter }} className="w-full" />
     </figure>
   );
 }

@@ -8,9 +8,10 @@ export interface MembershipRow {
 }
 
 /** Start fetching vega's runtime before the first answer arrives (on first interaction). */
-let vegaModule: Promise<typeof import('vega')> | null = null;
+type ChartRuntime = { vega: typeof import('vega'); interpreter: typeof import('vega-interpreter').expressionInterpreter };
+let vegaModule: Promise<ChartRuntime> | null = null;
 export function preloadChart() {
-  vegaModule ??= import('vega');
+  vegaModule ??= Promise.all([import('vega'), import('vega-interpreter')]).then(([vega, { expressionInterpreter }]) => ({ vega, interpreter: expressionInterpreter }));
   return vegaModule;
 }
 
@@ -29,9 +30,11 @@ export function MembershipChart({ spec, rows }: { spec: object; rows: Membership
     let view: import('vega').View | null = null;
     let cancelled = false;
     preloadChart()
-      .then(async (vega) => {
+      .then(async ({ vega, interpreter }) => {
         if (cancelled || !container.current) return;
-        view = new vega.View(vega.parse(spec as import('vega').Spec), { renderer: 'svg', container: container.current, hover: false });
+        // Parsed to an AST and run by the interpreter: no eval, so the page's CSP can forbid it.
+        const runtime = vega.parse(spec as import('vega').Spec, undefined, { ast: true });
+        view = new vega.View(runtime, { renderer: 'svg', container: container.current, hover: false, expr: interpreter });
         view.data('memberships', rows.map((r) => ({ label: r.label, probability: r.probability })));
         await view.runAsync();
         container.current?.setAttribute('data-chart-ready', 'true');

@@ -1,15 +1,15 @@
 import { loadServedEmbed, TOKEN_SHAPE } from '@/lib/scoring/served';
+import { appDirectives } from '@/lib/http/security-headers.mjs';
 import { frameAncestors } from './origins';
 
 /**
  * The Content-Security-Policy of a calculator page: who may frame it (the embed's
- * allowed hosts and our own origin for the studio preview), plus a few directives that
- * keep the page to itself. Unknown tokens get the strictest policy.
+ * allowed hosts and our own origin for the studio preview) first, then the app's own
+ * directives (scripts, styles, fonts and connections from our origin only, no eval).
+ * Unknown tokens get the strictest framing.
  */
-const REST = "base-uri 'none'; object-src 'none'; form-action 'self'; connect-src 'self'";
-
 export function calculatorPolicy(allowedOrigins: readonly string[]): string {
-  return `${frameAncestors(allowedOrigins)}; ${REST}`;
+  return [frameAncestors(allowedOrigins), ...appDirectives()].join('; ');
 }
 
 /** Policy for a request path under /embed/; null when the path is not a calculator. */

@@ -5,18 +5,18 @@
  */
 
 /**
- * The app's own Content-Security-Policy (every page but the calculator).
+ * The directives of the app's own Content-Security-Policy, but frame-ancestors (which
+ * differs: 'none' for the app, the embed's allowed hosts for a calculator).
  * - script-src 'unsafe-inline': Next's App Router streams its bootstrap and flight data
  *   as inline <script> tags; without a per-request nonce (which would make every page
  *   dynamic) they need it. No host but our own may serve scripts.
- * - 'unsafe-eval' only where vega charts run (studio, support): vega compiles chart
- *   expressions with the Function constructor. The dev server needs it everywhere.
+ * - no 'unsafe-eval' in production: vega runs chart expressions through
+ *   vega-interpreter instead of the Function constructor. The dev server needs eval.
  * - style-src 'unsafe-inline': React and vega write style attributes.
- * @param {{ charts: boolean }} opts
- * @returns {string}
+ * @returns {string[]}
  */
-export function appPolicy({ charts }) {
-  const evalAllowed = charts || process.env.NODE_ENV !== 'production';
+export function appDirectives() {
+  const evalAllowed = process.env.NODE_ENV !== 'production';
   return [
     "default-src 'self'",
     `script-src 'self' 'unsafe-inline'${evalAllowed ? " 'unsafe-eval'" : ''}`,
@@ -26,14 +26,18 @@ export function appPolicy({ charts }) {
     "connect-src 'self'",
     // the studio previews its calculators in an iframe of our own origin
     "frame-src 'self'",
-    "frame-ancestors 'none'",
     // forms post only to us; checkout leaves by navigation (location.assign), not a form
     "form-action 'self'",
     "base-uri 'self'",
     "object-src 'none'",
     "worker-src 'self' blob:",
     "manifest-src 'self'",
-  ].join('; ');
+  ];
+}
+
+/** The app's own policy: every page but the calculator. */
+export function appPolicy() {
+  return [...appDirectives(), "frame-ancestors 'none'"].join('; ');
 }
 
 /**
@@ -56,7 +60,7 @@ export function apiHeaders() {
 export function unframedHeaders() {
   return [
     { key: 'X-Frame-Options', value: 'DENY' },
-    { key: 'Content-Security-Policy', value: appPolicy({ charts: false }) },
+    { key: 'Content-Security-Policy', value: appPolicy() },
     { key: 'X-Content-Type-Options', value: 'nosniff' },
     { key: 'Referrer-Policy', value: 'strict-origin-when-cross-origin' },
   ];

@@ -87,9 +87,9 @@ describe('security headers and a clean console under the CSP', () => {
     await anonymous.close();
   });
 
-  it('a studio model page draws its vega charts under the chart policy', async () => {
+  it('a studio model page draws its vega charts under the same policy, without eval', async () => {
     const { page, headers, violations } = await visit(`/studio/models/${modelId}`);
-    expectAppPolicy(headers, { eval: true });
+    expectAppPolicy(headers, { eval: false });
     await page.locator('svg.marks, figure svg').first().waitFor({ timeout: 20_000 });
     expect(violations).toEqual([]);
     await screenshot(page, 'headers-studio-model');
@@ -103,6 +103,10 @@ describe('security headers and a clean console under the CSP', () => {
     expect(d.get('frame-ancestors')).not.toBe("'none'");
     expect(headers['x-frame-options']).toBeUndefined();
     expect(headers['x-content-type-options']).toBe('nosniff');
+    // The rest is the app's own policy: no eval, scripts and connections from our origin only.
+    expect(d.get('script-src')).toBe("'self' 'unsafe-inline'");
+    expect(d.get('connect-src')).toBe("'self'");
+    expect(d.get('object-src')).toBe("'none'");
     const inputs = page.locator('input[type="number"], input[inputmode="decimal"]');
     const count = await inputs.count();
     for (let i = 0; i < count; i++) await inputs.nth(i).fill(String([24, 120, 400][i] ?? 1));
