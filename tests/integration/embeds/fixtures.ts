@@ -5,13 +5,15 @@ import { Membership, MixtureModel, Subscription, User, Workspace } from '@/model
 export const FEATURES = ['avg_speed_kmh', 'weekly_distance_km', 'climb_per_ride_m'] as const;
 
 let counter = 0;
+// Browser test files share one stack database and each starts its counter at 0.
+const run = Math.random().toString(36).slice(2, 8);
 
 /** A workspace with an owner, a member and a named 3-cluster model fitted by the engine. */
 export async function modelWorkspace(opts: { plan?: string } = {}) {
   const n = ++counter;
-  const owner = await User.create({ email: `owner${n}@embeds.test`, name: 'Owner', passwordHash: 'x', emailVerifiedAt: new Date() });
-  const member = await User.create({ email: `member${n}@embeds.test`, name: 'Member', passwordHash: 'x', emailVerifiedAt: new Date() });
-  const workspace = await Workspace.create({ name: `Embeds ${n}`, slug: `embeds-${n}` });
+  const owner = await User.create({ email: `owner${n}-${run}@embeds.test`, name: 'Owner', passwordHash: 'x', emailVerifiedAt: new Date() });
+  const member = await User.create({ email: `member${n}-${run}@embeds.test`, name: 'Member', passwordHash: 'x', emailVerifiedAt: new Date() });
+  const workspace = await Workspace.create({ name: `Embeds ${n}`, slug: `embeds-${n}-${run}` });
   await Membership.bulkCreate([
     { userId: owner.id, workspaceId: workspace.id, role: 'owner' },
     { userId: member.id, workspaceId: workspace.id, role: 'member' },
