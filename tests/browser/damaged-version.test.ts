@@ -5,8 +5,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, BrowserContext } from 'playwright-core';
-import { appUrl, launchBrowser, screenshot } from '../helpers/browser';
-import { sessionCookie } from '../helpers/auth';
+import { appUrl, launchBrowser, screenshot, signInContext } from '../helpers/browser';
 import { modelWorkspace } from '../integration/embeds/fixtures';
 
 let browser: Browser;
@@ -26,12 +25,7 @@ beforeAll(async () => {
   token = embed.token;
   embedId = embed.id;
   context = await browser.newContext({ viewport: { width: 1280, height: 1000 } });
-  await context.addCookies(
-    (await sessionCookie(ws.owner.id, ws.workspace.id)).split('; ').map((pair) => {
-      const i = pair.indexOf('=');
-      return { name: pair.slice(0, i), value: pair.slice(i + 1), url: appUrl('/') };
-    }),
-  );
+  await signInContext(context, ws.owner.id, ws.workspace.id);
 });
 
 afterAll(async () => {

@@ -2,7 +2,7 @@ import http from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Frame, Page } from 'playwright-core';
-import { appUrl, launchBrowser, screenshot } from '../helpers/browser';
+import { appUrl, launchBrowser, screenshot, signInContext } from '../helpers/browser';
 import { modelWorkspace } from '../integration/embeds/fixtures';
 
 /**
@@ -189,13 +189,8 @@ describe('embedded calculator', () => {
   });
 
   it('shows the studio page with a live preview (framed by our own origin) and the snippets', async () => {
-    const { sessionCookie } = await import('../helpers/auth');
     const context = await browser.newContext({ viewport: { width: 1280, height: 1000 } });
-    const cookie = await sessionCookie(studio.userId, studio.workspaceId);
-    await context.addCookies(cookie.split('; ').map((pair) => {
-      const [name, ...rest] = pair.split('=');
-      return { name, value: rest.join('='), url: appUrl('/') };
-    }));
+    await signInContext(context, studio.userId, studio.workspaceId);
     const page = await context.newPage();
     const res = await page.goto(appUrl(`/studio/calculators/${studio.embedId}`));
     expect(res?.status()).toBe(200);

@@ -6,8 +6,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { appUrl, launchBrowser, screenshot } from '../helpers/browser';
-import { sessionCookie } from '../helpers/auth';
+import { appUrl, launchBrowser, screenshot, signInContext } from '../helpers/browser';
 import { modelWorkspace } from '../integration/embeds/fixtures';
 
 const IMG = '<img src=x onerror="window.__pwned=1">';
@@ -31,11 +30,7 @@ beforeAll(async () => {
   token = embed.token;
   embedId = embed.id;
   context = await browser.newContext({ viewport: { width: 1100, height: 1000 } });
-  const cookies = (await sessionCookie(ws.owner.id, ws.workspace.id)).split('; ').map((pair) => {
-    const i = pair.indexOf('=');
-    return { name: pair.slice(0, i), value: pair.slice(i + 1), url: appUrl('/') };
-  });
-  await context.addCookies(cookies);
+  await signInContext(context, ws.owner.id, ws.workspace.id);
 });
 
 afterAll(async () => {

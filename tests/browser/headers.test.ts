@@ -5,9 +5,8 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { appUrl, launchBrowser, screenshot } from '../helpers/browser';
+import { appUrl, launchBrowser, screenshot, signInContext } from '../helpers/browser';
 import { DEMO_USERS } from '@/lib/demo/accounts';
-import { sessionCookie } from '../helpers/auth';
 
 let browser: Browser;
 let context: BrowserContext;
@@ -19,11 +18,7 @@ beforeAll(async () => {
   context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
   const { User, Embed, MixtureModel } = await import('@/models');
   const analyst = (await User.findOne({ where: { email: DEMO_USERS.member.email } }))!;
-  const cookies = (await sessionCookie(analyst.id)).split('; ').map((pair) => {
-    const i = pair.indexOf('=');
-    return { name: pair.slice(0, i), value: pair.slice(i + 1), url: appUrl('/') };
-  });
-  await context.addCookies(cookies);
+  await signInContext(context, analyst.id);
   token = (await Embed.findOne({ where: { status: 'active' }, order: [['id', 'ASC']] }))!.token;
   modelId = (await MixtureModel.findOne({ order: [['id', 'ASC']] }))!.id;
 });
