@@ -28,14 +28,37 @@ export function scoringToken(req: IncomingMessage): string | null {
 // Flat [name, value, …] list: node writes it without building a header object per response.
 const BASE_HEADERS: string[] = [...apiHeaders().flatMap((h) => [h.key, h.value]), 'Cache-Control', 'no-store', 'Vary', 'Origin', 'Content-Type', 'application/json'];
 
-function headerReader(headers: IncomingHttpHeaders): { get(name: string): string | null } {
-  return {
-    get(name) {
-      const v = headers[name.toLowerCase()];
-      if (v === undefined) return null;
-      return Array.isArray(v) ? v.join(', ') : v;
-    },
-  };
+/**
+ * The scoring flow's view of a node request. A class rather than an object of arrow
+ * functions: nothing is allocated per request but this one object.
+ */
+class NodeScoreCall implements ScoreCall {
+  readonly headers: { get(name: string): string | null };
+  readonly address: string | null;
+  readonly requestOrigin: string;
+
+  constructor(
+    private readonly req: IncomingMessage,
+    client: ClientView,
+  ) {
+    this.headers = this;
+    this.address = client.address;
+    this.requestOrigin = requestOrigin(req, client);
+  }
+
+  get(name: string): string | null {
+    const v = (this.req.headers as IncomingHttpHeaders)[name.toLowerCase()];
+    if (v === undefined) return null;
+    return Array.isArray(v) ? v.join(', ') : v;
+  }
+
+  text(): Promise<string> {
+    return readBody(this.req, MAX_SCORE_BODY_BYTES);
+  }
+}
+
+function nothing(): null {
+  return null;
 }
 
 /** The body as text, refused (413) as soon as it passes `max` bytes, whatever Content-Length said. */
@@ -72,17 +95,13 @@ function send(res: ServerResponse, status: number, body: string, extra: Record<s
 }
 
 export async function answerScore(req: IncomingMessage, res: ServerResponse, token: string, client: ClientView): Promise<void> {
-  const call: ScoreCall = {
-    headers: headerReader(req.headers),
-    address: client.address,
-    requestOrigin: requestOrigin(req, client),
-    text: () => readBody(req, MAX_SCORE_BODY_BYTES),
-  };
+  const call = new NodeScoreCall(req, client);
   let allowOrigin: string | undefined;
   try {
-    parseWith(scoreTokenParam, { token }, 'address');
-    // Known first, so an allowed host page can read refusals too (the lookup is cached).
-    allowOrigin = corsHeaders(call, await loadServedEmbed(token).catch(() => null))['Access-Control-Allow-Origin'];
+    // The same check and message as the route's params (only a long token can fail it).
+    if (token.length > 64) parseWith(scoreTokenParam, { token }, 'address');
+    // Browsers send Origin: known first, so an allowed host page can read refusals too.
+    if (req.headers.origin) allowOrigin = corsHeaders(call, await loadServedEmbed(token).catch(nothing))['Access-Control-Allow-Origin'];
     const { answer } = await scoreForToken(token, call);
     send(res, 200, JSON.stringify(answer), allowOrigin ? { 'Access-Control-Allow-Origin': allowOrigin } : null);
   } catch (error) {
