@@ -2,6 +2,8 @@ const STYLE: Record<string, [string, string]> = {
   active: ['Live', 'bg-moss-100 text-moss-700'],
   disabled: ['Disabled by support', 'bg-clay-100 text-clay-700'],
   retired: ['Retired', 'bg-paper-deep text-ink-soft'],
+  // Active, but the version it serves is damaged: visitors see "not available".
+  damaged: ['Not answering', 'bg-clay-100 text-clay-700'],
 };
 
 export function StatusPill({ status }: { status: string }) {

@@ -41,6 +41,7 @@ describe('a damaged served version', () => {
     await page.goto(appUrl(`/studio/calculators/${embedId}`));
     const alert = page.getByRole('alert').filter({ hasText: 'is damaged' });
     await alert.waitFor();
+    await expect(page.getByText('Not answering', { exact: true }).count()).resolves.toBe(1);
     expect(await alert.textContent()).toMatch(/Version 2, which this calculator serves, is damaged: its stored content no longer matches the checksum/);
     const rows = page.locator('table tbody tr');
     await expect(rows.filter({ hasText: 'v2' }).getByText('Damaged').count()).resolves.toBe(1);
@@ -51,6 +52,7 @@ describe('a damaged served version', () => {
 
     await page.getByRole('button', { name: 'Serve v1' }).click();
     await page.getByRole('alert').filter({ hasText: 'is damaged' }).waitFor({ state: 'detached' });
+    await page.getByText('Live', { exact: true }).waitFor();
     const answer = await fetch(appUrl(`/api/score/${token}`), { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ values: { avg_speed_kmh: 24, weekly_distance_km: 120, climb_per_ride_m: 400 } }) });
     expect(answer.status).toBe(200);
     expect((await answer.json()).version).toBe(1);

@@ -47,7 +47,7 @@ export default async function CalculatorPage({ params }: { params: Promise<{ id:
       title={embed.title}
       lead={
         <span className="inline-flex flex-wrap items-center gap-3">
-          <StatusPill status={embed.status} />
+          <StatusPill status={embed.status === 'active' && served?.problem ? 'damaged' : embed.status} />
           <span>{answersThisMonth.toLocaleString('en')} answers this month</span>
           {embed.status === 'disabled' && embed.disabledReason && <span>Support&rsquo;s reason: {embed.disabledReason}</span>}
         </span>
