@@ -88,29 +88,33 @@ type StoredVersion = { id: number; payload: unknown; checksum: string };
  * A checksum that does not match means the row was changed or damaged after publishing;
  * a model the engine cannot read would fail every answer.
  */
-export function storedPayloadProblem(version: StoredVersion): string | null {
-  let raw: VersionPayload;
+function inspectStoredVersion(version: StoredVersion): { payload: VersionPayload; engine: EngineModel } | { problem: string } {
+  let payload: VersionPayload;
   try {
-    raw = (typeof version.payload === 'string' ? JSON.parse(version.payload) : version.payload) as VersionPayload;
+    payload = (typeof version.payload === 'string' ? JSON.parse(version.payload) : version.payload) as VersionPayload;
   } catch {
-    return 'its stored content is not readable JSON';
+    return { problem: 'its stored content is not readable JSON' };
   }
-  if (!raw || typeof raw !== 'object') return 'its stored content is missing';
-  if (payloadChecksum(raw) !== version.checksum) return 'its stored content no longer matches the checksum it was published with';
+  if (!payload || typeof payload !== 'object') return { problem: 'its stored content is missing' };
+  if (payloadChecksum(payload) !== version.checksum) return { problem: 'its stored content no longer matches the checksum it was published with' };
   try {
-    parseModelJson(raw.model);
+    return { payload, engine: parseModelJson(payload.model) };
   } catch (e) {
-    return `its model cannot be read (${e instanceof MixtureError ? e.message : 'unexpected shape'})`;
+    return { problem: `its model cannot be read (${e instanceof MixtureError ? e.message : 'unexpected shape'})` };
   }
-  return null;
 }
 
-/** Read a stored version back; a damaged one is refused (and logged) rather than scored. */
-export function readStoredPayload(version: StoredVersion): VersionPayload {
-  const problem = storedPayloadProblem(version);
-  if (problem) {
-    console.error(`[partwise] model version ${version.id} is damaged (${problem}); refusing to serve it.`);
+export function storedPayloadProblem(version: StoredVersion): string | null {
+  const inspected = inspectStoredVersion(version);
+  return 'problem' in inspected ? inspected.problem : null;
+}
+
+/** Read a stored version back, with its engine model; a damaged one is refused (and logged) rather than scored. */
+export function readStoredVersion(version: StoredVersion): { payload: VersionPayload; engine: EngineModel } {
+  const inspected = inspectStoredVersion(version);
+  if ('problem' in inspected) {
+    console.error(`[partwise] model version ${version.id} is damaged (${inspected.problem}); refusing to serve it.`);
     throw new AppError('unavailable', 'This calculator is temporarily unavailable.');
   }
-  return (typeof version.payload === 'string' ? JSON.parse(version.payload) : version.payload) as VersionPayload;
+  return inspected;
 }

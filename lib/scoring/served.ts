@@ -1,6 +1,6 @@
 import { z } from 'zod';
-import { parseModelJson, type MixtureModel as EngineModel } from '@/lib/mixture';
-import { readStoredPayload, type VersionPayload } from '@/lib/embeds/payload';
+import type { MixtureModel as EngineModel } from '@/lib/mixture';
+import { readStoredVersion, type VersionPayload } from '@/lib/embeds/payload';
 import { AppError, type FieldIssue } from '@/lib/errors';
 import { Embed, ModelVersion, Workspace, type FieldSetting } from '@/models';
 import { rereadScoringSettings, scoringSettings } from './limits';
@@ -120,8 +120,7 @@ export async function loadServedVersion(versionId: number): Promise<ServedVersio
   if (hit) return hit;
   const row = await ModelVersion.findByPk(versionId);
   if (!row) throw new AppError('unavailable', 'This calculator is temporarily unavailable.');
-  const payload = readStoredPayload(row);
-  const engine = parseModelJson(payload.model);
+  const { payload, engine } = readStoredVersion(row);
   const served: ServedVersion = { id: row.id, number: row.number, payload, engine, valuesSchema: valuesSchema(payload.fields) };
   if (caches.versions.size >= MAX_VERSIONS) caches.versions.delete(caches.versions.keys().next().value as number);
   caches.versions.set(versionId, served);
