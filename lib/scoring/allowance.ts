@@ -1,5 +1,6 @@
 import { answerAllowance, type AllowanceState } from '@/lib/billing/limits';
 import { rereadScoringSettings, scoringSettings } from './limits';
+import { sharedLookup } from './single-flight';
 
 /**
  * The billing engineer's answer allowance, asked on every answer but remembered per
@@ -20,17 +21,7 @@ const checking = ((globalThis as Record<symbol, unknown>)[Symbol.for('partwise.a
 export async function answerState(workspaceId: number, now = Date.now()): Promise<AllowanceState> {
   const hit = cache.get(workspaceId);
   if (hit && now - hit.checkedAt < scoringSettings(now).allowanceCacheMs) return hit.state;
-  const under = checking.get(workspaceId);
-  if (under) return under;
-  const check = answerAllowance(workspaceId).then((a) => a.state);
-  checking.set(workspaceId, check);
-  try {
-    const state = await check;
-    if (checking.get(workspaceId) === check) cache.set(workspaceId, { state, checkedAt: now });
-    return state;
-  } finally {
-    if (checking.get(workspaceId) === check) checking.delete(workspaceId);
-  }
+  return sharedLookup(checking, workspaceId, () => answerAllowance(workspaceId).then((a) => a.state), (state) => cache.set(workspaceId, { state, checkedAt: now }));
 }
 
 /** After a plan change: read the allowance fresh next time. */

@@ -4,6 +4,7 @@ import { readStoredVersion, type VersionPayload } from '@/lib/embeds/payload';
 import { AppError, type FieldIssue } from '@/lib/errors';
 import { Embed, ModelVersion, Workspace, type FieldSetting } from '@/models';
 import { rereadScoringSettings, scoringSettings } from './limits';
+import { sharedLookup } from './single-flight';
 
 /**
  * What the public routes need about an embed, cached per token for a moment. Status is
@@ -73,21 +74,10 @@ export async function loadServedEmbed(token: string, now = Date.now()): Promise<
   if (!TOKEN_SHAPE.test(token)) return null;
   const hit = caches.embeds.get(token);
   if (hit && now - hit.loadedAt < scoringSettings(now).embedCacheMs) return hit;
-  const under = caches.loading.get(token);
-  if (under) return under;
-  const load = readServedEmbed(token, now);
-  caches.loading.set(token, load);
-  try {
-    const served = await load;
-    // Only the lookup still registered may fill the cache (an invalidation clears the register).
-    if (caches.loading.get(token) === load) {
-      if (served) caches.embeds.set(token, served);
-      else caches.embeds.delete(token);
-    }
-    return served;
-  } finally {
-    if (caches.loading.get(token) === load) caches.loading.delete(token);
-  }
+  return sharedLookup(caches.loading, token, () => readServedEmbed(token, now), (served) => {
+    if (served) caches.embeds.set(token, served);
+    else caches.embeds.delete(token);
+  });
 }
 
 async function readServedEmbed(token: string, now: number): Promise<ServedEmbed | null> {
