@@ -1,5 +1,5 @@
 import { answerAllowance, type AllowanceState } from '@/lib/billing/limits';
-import { rereadScoringSettings, scoringSettings } from './limits';
+import { scoringSettings } from './limits';
 import { sharedLookup } from './single-flight';
 
 /**
@@ -26,7 +26,6 @@ export async function answerState(workspaceId: number, now = Date.now()): Promis
 
 /** After a plan change: read the allowance fresh next time. */
 export function invalidateAllowance(workspaceId?: number): void {
-  rereadScoringSettings();
   checking.clear();
   if (workspaceId === undefined) cache.clear();
   else cache.delete(workspaceId);
