@@ -41,27 +41,25 @@ export function appPolicy() {
 }
 
 /**
- * Headers of JSON route handlers: nothing in a JSON answer may load or run anything.
+ * Headers of a response that is never framed, with its policy.
+ * @param {string} policy
  * @returns {{ key: string, value: string }[]}
  */
-export function apiHeaders() {
+function neverFramed(policy) {
   return [
     { key: 'X-Frame-Options', value: 'DENY' },
-    { key: 'Content-Security-Policy', value: "default-src 'none'; frame-ancestors 'none'" },
+    { key: 'Content-Security-Policy', value: policy },
     { key: 'X-Content-Type-Options', value: 'nosniff' },
     { key: 'Referrer-Policy', value: 'strict-origin-when-cross-origin' },
   ];
 }
 
-/**
- * Headers of everything that is never framed (all but the calculator page).
- * @returns {{ key: string, value: string }[]}
- */
+/** Headers of JSON route handlers: nothing in a JSON answer may load or run anything. */
+export function apiHeaders() {
+  return neverFramed("default-src 'none'; frame-ancestors 'none'");
+}
+
+/** Headers of every page that is never framed (all but the calculator page). */
 export function unframedHeaders() {
-  return [
-    { key: 'X-Frame-Options', value: 'DENY' },
-    { key: 'Content-Security-Policy', value: appPolicy() },
-    { key: 'X-Content-Type-Options', value: 'nosniff' },
-    { key: 'Referrer-Policy', value: 'strict-origin-when-cross-origin' },
-  ];
+  return neverFramed(appPolicy());
 }
