@@ -44,10 +44,6 @@ export function rereadScoringSettings(): void {
   snapshot = null;
 }
 
-export function scoringLimits(): { perAddress: LimitOptions; perToken: LimitOptions } {
-  return scoringSettings();
-}
-
 /** Abuse reports: five from one address, then one every two minutes. */
 export function reportLimit(): LimitOptions {
   return { limit: envNumber('PARTWISE_REPORT_BURST', 5), windowMs: envNumber('PARTWISE_REPORT_WINDOW_MS', 10 * 60_000) };

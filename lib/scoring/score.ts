@@ -7,7 +7,7 @@ import { readJson, type BodySource } from '@/lib/http/handler';
 import { recordAnswer } from '@/lib/usage';
 import { answerState } from './allowance';
 import { takeToken } from '@/lib/rate-limit';
-import { scoringLimits } from './limits';
+import { scoringSettings } from './limits';
 import { isServing, loadServedEmbed, loadServedVersion, parseValues, type ServedEmbed } from './served';
 
 /** A scored answer as the calculator (and any allowed host page) receives it. */
@@ -82,7 +82,7 @@ function limited(retryAfterSeconds: number, what: string): AppError {
 
 /** The public scoring flow: cheap refusals first, then validation, then the engine. */
 export async function scoreForToken(token: string, call: ScoreCall): Promise<{ answer: ScoreAnswer; embed: ServedEmbed }> {
-  const rules = scoringLimits();
+  const rules = scoringSettings();
   const address = call.address ?? 'unknown';
   const byAddress = takeToken(`score:addr:${address}`, rules.perAddress);
   if (!byAddress.ok) throw limited(byAddress.retryAfterSeconds, 'from your network');
