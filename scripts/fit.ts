@@ -1,12 +1,10 @@
 /**
- * npm run --silent fit -- FILE.csv [options]   → fitted mixture model JSON on stdout.
- * Options: --columns a,b,c  --components 3 | 1-8  --covariance full|diagonal|spherical|tied|all
- *          --init kmeans++|points|rows:0,50,100  --restarts N  --seed N  --tol X  --max-iter N
- *          --reg X  --no-standardize  --criterion bic|aic  --units a=mm,b=g  --threads N
+ * `npm run fit -- FILE.csv [options]`: fit a mixture from the command line (USAGE below).
  * Bad input: one line on stderr, exit code 2.
  */
 import fs from 'node:fs';
 import { parseArgs } from 'node:util';
+import { CliError, describeNotNumbers, describeSkipped, readCsvMatrix } from './lib/csv-table';
 import {
   buildModel,
   type Covariance,
@@ -15,13 +13,36 @@ import {
   type InitMethod,
   localEngine,
   MixtureError,
-  parseNumericTable,
   type PassEngine,
   selectMixtureWith,
   toModelJson,
 } from '../lib/mixture';
 
-class CliError extends Error {}
+export const USAGE = `Fit a Gaussian mixture to the numeric columns of a CSV file and write the model JSON.
+
+usage: npm run fit -- FILE.csv [options]            (model JSON on stdout; add --out to write a file)
+       npm run --silent fit -- FILE.csv > model.json (npm prints its own header unless --silent)
+
+The CSV is read like a studio upload: comma, semicolon or tab separated, a header row,
+blank or NA cells allowed (rows with a blank in a chosen column are left out and counted).
+
+options:
+  --out FILE             write the model JSON to FILE instead of stdout
+  --columns a,b,c        columns to use, by header name (default: every numeric column)
+  --components K | A-B   one component count, or a range to search (default 3)
+  --covariance S         full | diagonal | spherical | tied | all (default full)
+  --criterion bic|aic    what ranks the candidates of a search (default bic)
+  --init M               kmeans++ | points | rows:i,j,k (0-based data rows as starting means)
+  --restarts N           starts per candidate; the best log-likelihood is kept (default 1)
+  --seed N               seed for the random starts (default 0)
+  --tol X                stop when the mean log-likelihood gains less than X (default 1e-3)
+  --max-iter N           most EM iterations per start (default 100)
+  --reg X                added to every covariance diagonal, in the fit's space (default 1e-6)
+  --no-standardize       fit in the columns' own units instead of z-scores
+  --units a=mm,b=g       units recorded with the features
+  --threads N            worker threads for a search (default 1)
+  -h, --help             this text
+`;
 
 function int(name: string, v: string | undefined, min: number): number | undefined {
   if (v === undefined) return undefined;
@@ -33,15 +54,6 @@ function num(name: string, v: string | undefined): number | undefined {
   const x = Number(v);
   if (v.trim() === '' || !Number.isFinite(x) || x < 0) throw new CliError(`--${name} must be a non-negative number (got "${v}")`);
   return x;
-}
-
-export function readText(file: string): string {
-  try {
-    return fs.readFileSync(file, 'utf8');
-  } catch (e) {
-    const code = (e as NodeJS.ErrnoException).code;
-    throw new CliError(code === 'ENOENT' ? `cannot read ${file}: no such file` : `cannot read ${file}: ${(e as Error).message}`);
-  }
 }
 
 async function main(argv: string[]): Promise<void> {
@@ -64,16 +76,25 @@ async function main(argv: string[]): Promise<void> {
         criterion: { type: 'string' },
         units: { type: 'string' },
         threads: { type: 'string' },
+        out: { type: 'string' },
+        help: { type: 'boolean', short: 'h' },
       },
     });
   } catch (e) {
     const m = /Unknown option '([^']+)'/.exec((e as Error).message);
-    throw new CliError(m ? `unknown option ${m[1]}` : (e as Error).message.split('\n')[0]);
+    throw new CliError(m ? `unknown option ${m[1]} (see --help)` : (e as Error).message.split('\n')[0]);
   }
   const { values: o, positionals } = parsed;
-  if (positionals.length !== 1) throw new CliError(`expected one CSV file, got ${positionals.length} (usage: fit FILE.csv [options])`);
+  if (o.help) {
+    process.stdout.write(USAGE);
+    return;
+  }
+  if (positionals.length !== 1) throw new CliError(`expected one CSV file, got ${positionals.length} (see --help)`);
   const file = positionals[0];
-  const table = parseNumericTable(readText(file), o.columns ? o.columns.split(',').filter(Boolean) : undefined);
+  const table = readCsvMatrix(file, o.columns ? o.columns.split(',').map((c) => c.trim()).filter(Boolean) : undefined);
+  for (const line of describeNotNumbers(table)) process.stderr.write(`fit: note: ${line}\n`);
+  if (table.n < table.totalRows) process.stderr.write(`fit: note: ${describeSkipped(table)}\n`);
+  const emit = (json: string) => (o.out ? fs.writeFileSync(o.out, json + '\n') : process.stdout.write(json + '\n'));
 
   let ks: number[];
   const spec = o.components ?? '3';
@@ -143,7 +164,7 @@ async function main(argv: string[]): Promise<void> {
     const features = table.names.map((name) => ({ name, unit: units.get(name) ?? null }));
     if (ks.length === 1 && covs.length === 1) {
       const fit = fitMixtureWith(table.rows, table.n, table.d, { ...common, components: ks[0], covariance: covs[0], init }, engine);
-      process.stdout.write(toModelJson(buildModel(table.rows, table.n, table.d, fit, { features })) + '\n');
+      emit(toModelJson(buildModel(table.rows, table.n, table.d, fit, { features })));
     } else {
       const sel = selectMixtureWith(
         table.rows,
@@ -153,7 +174,7 @@ async function main(argv: string[]): Promise<void> {
         engine,
       );
       const model = buildModel(table.rows, table.n, table.d, sel.best, { features, selection: sel.candidates });
-      process.stdout.write(toModelJson(model) + '\n');
+      emit(toModelJson(model));
     }
   } finally {
     await close();

@@ -134,34 +134,4 @@ export async function deleteDataset(workspaceId: number, id: number): Promise<vo
   });
 }
 
-export interface FeatureMatrix {
-  features: DatasetColumn[];
-  rows: Float64Array;
-  n: number;
-  d: number;
-  /** Rows left out because a chosen column had no number. */
-  dropped: number;
-  /** For each kept row, its index in the dataset (for joining scores back). */
-  rowIndex: Int32Array;
-}
-
-/** The chosen numeric columns as an n·d matrix, dropping rows with any missing value. */
-export function featureMatrix(dataset: Pick<Dataset, 'columns' | 'cells'>, featureNames: string[]): FeatureMatrix {
-  if (featureNames.length === 0) throw new AppError('invalid_input', 'Choose at least one feature.', { issues: [{ field: 'features', message: 'choose at least one' }] });
-  const idx = featureNames.map((name, i) => {
-    const j = dataset.columns.findIndex((c) => c.name === name);
-    if (j < 0) throw new AppError('invalid_input', `There is no column "${name}" in this dataset.`, { issues: [{ field: `features.${i}`, message: 'unknown column' }] });
-    if (dataset.columns[j].kind !== 'numeric') throw new AppError('invalid_input', `Column "${name}" holds text, not numbers.`, { issues: [{ field: `features.${i}`, message: 'not numeric' }] });
-    return j;
-  });
-  const d = idx.length;
-  const kept: number[] = [];
-  dataset.cells.forEach((row, r) => {
-    if (idx.every((j) => typeof row[j] === 'number' && Number.isFinite(row[j] as number))) kept.push(r);
-  });
-  const rows = new Float64Array(kept.length * d);
-  kept.forEach((r, i) => {
-    for (let k = 0; k < d; k++) rows[i * d + k] = dataset.cells[r][idx[k]] as number;
-  });
-  return { features: idx.map((j) => dataset.columns[j]), rows, n: kept.length, d, dropped: dataset.cells.length - kept.length, rowIndex: Int32Array.from(kept) };
-}
+export { featureMatrix, type FeatureMatrix } from './matrix';

@@ -62,7 +62,12 @@ function describeRow(i: number): string {
   return `row ${i + 2}`; // data row i (0-based) sits under the header on sheet row i + 2
 }
 
-export function parseCsvText(text: string): ParsedTable {
+/**
+ * `minCompleteRows`: fewest rows with a number in every numeric column (default
+ * MIN_DATA_ROWS, what a fit needs); scoring a few rows from the command line passes 0.
+ */
+export function parseCsvText(text: string, opts: { minCompleteRows?: number } = {}): ParsedTable {
+  const minCompleteRows = opts.minCompleteRows ?? MIN_DATA_ROWS;
   if (text.trim() === '') throw new AppError('bad_request', 'The file is empty: a CSV needs a header row and at least one data row.');
   const parsed = Papa.parse<string[]>(text, { header: false, skipEmptyLines: 'greedy', delimitersToGuess: [',', ';', '\t', '|'] });
   const quote = parsed.errors.find((e) => e.type === 'Quotes');
@@ -172,7 +177,7 @@ export function parseCsvText(text: string): ParsedTable {
     throw new AppError('invalid_input', `No column holds numbers: ${header.slice(0, 8).map((h) => `"${h}"`).join(', ')}${header.length > 8 ? '…' : ''} all look like text. A mixture needs at least one numeric column.`);
   }
   const completeRows = cells.filter((r) => numericIdx.every((j) => typeof r[j] === 'number')).length;
-  if (completeRows < MIN_DATA_ROWS) {
+  if (completeRows < minCompleteRows) {
     throw new AppError('invalid_input', `Only ${completeRows} row${completeRows === 1 ? ' has' : 's have'} a number in every numeric column (${numericIdx.map((j) => header[j]).join(', ')}); at least ${MIN_DATA_ROWS} are needed to fit a mixture.`);
   }
   return { columns, cells, completeRows, delimiter: parsed.meta.delimiter };

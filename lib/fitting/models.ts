@@ -159,7 +159,9 @@ export async function listModels(workspaceId: number) {
 
 /** The documented model JSON (v1), validated on the way out, and a file name for it. */
 export function modelDownload(model: MixtureModel): { body: string; filename: string } {
-  const body = toModelJson(parseModelJson(model.model));
+  // The analyst's names travel with the numbers, so `npm run score` can head its columns with them.
+  const clusters = model.clusters.map((c) => ({ label: c.label, description: c.description, color: c.color }));
+  const body = toModelJson({ ...parseModelJson(model.model), clusters });
   const slug = model.name.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '') || 'model';
   return { body, filename: `${slug}.partwise-model.json` };
 }

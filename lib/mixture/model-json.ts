@@ -51,6 +51,10 @@ const modelSchema = z.object({
     rows: z.number().int().positive(),
     logDensityQuantiles: z.object({ levels: z.array(finite).min(2), values: z.array(finite).min(2) }),
   }),
+  /** Optional names per component, in component order (a studio download carries the analyst's labels). */
+  clusters: z
+    .array(z.object({ label: z.string().min(1, 'must not be empty'), description: z.string().optional(), color: z.string().optional() }))
+    .optional(),
   ranking: z
     .array(
       z.object({
@@ -166,6 +170,7 @@ export function parseModelJson(input: unknown): MixtureModel {
   const m = parsed.data as MixtureModel;
   const k = m.weights.length;
   const d = m.features.length;
+  if (m.clusters && m.clusters.length !== k) fail('clusters', `has ${m.clusters.length} names but there are ${k} weights`);
   if (m.means.length !== k) fail('means', `has ${m.means.length} rows but there are ${k} weights`);
   if (m.covariances.length !== k) fail('covariances', `has ${m.covariances.length} matrices but there are ${k} weights`);
   let wsum = 0;

@@ -99,6 +99,8 @@ describe('named models', () => {
     const parsed = parseModelJson(await res.text());
     expect(parsed.format).toBe('partwise.mixture-model');
     expect(parsed.ranking).toHaveLength(3);
+    // the analyst's names travel with the numbers, for `npm run score`
+    expect(parsed.clusters?.map((c) => c.label)).toEqual(model.clusters.map((c) => c.label));
     const score = scoreRow(parsed, [25, 140, 430]);
     expect(score.probabilities.reduce((a, b) => a + b, 0)).toBeCloseTo(1, 9);
 

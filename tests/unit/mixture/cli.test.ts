@@ -74,21 +74,80 @@ describe('fit and score CLI', () => {
     expect(model.settings).toMatchObject({ init: 'means', standardized: false });
   });
 
+  // Ten or more rows: the CLI reads files like a studio upload, which needs at least ten complete rows.
+  const grid = (extra: (i: number) => string) => Array.from({ length: 12 }, (_, i) => extra(i)).join('\n');
   it.each([
     ['missing file', ['/nonexistent/x.csv'], /^fit: cannot read \/nonexistent\/x\.csv: no such file$/],
-    ['non-numeric cell', ['BAD'], /^fit: Line 4 \(data row 3\), column "b": "oops" is not a number\.$/],
-    ['fewer rows than components', ['BAD', '--components', '9', '--columns', 'a'], /^fit: .* has 4 rows, fewer than the 9 components/],
+    ['fewer than ten complete rows', ['SHORT'], /^fit: .*short\.csv: Only 3 rows have a number in every numeric column \(a, b\); at least 10 are needed/],
+    ['fewer rows than components', ['WIDE', '--components', '20', '--columns', 'a'], /^fit: .* has 12 rows, fewer than the 20 components/],
     ['constant column', ['CONST', '--components', '1'], /^fit: Column c is constant/],
-    ['unknown option', ['CONST', '--colour', 'red'], /^fit: unknown option --colour$/],
+    ['unknown column', ['WIDE', '--columns', 'a,zz'], /^fit: .*wide\.csv: There is no column "zz" .*\(columns: a, b\)$/],
+    ['unknown option', ['CONST', '--colour', 'red'], /^fit: unknown option --colour \(see --help\)$/],
   ])('%s exits non-zero with one line on stderr', (_name, args, pattern) => {
-    const bad = write('bad.csv', 'a,b\n1,2\n3,4\n5,oops\n7,8\n');
-    const constant = write('const.csv', 'a,c\n1,2\n3,2\n4,2\n');
-    const r = run('fit', args.map((a) => (a === 'BAD' ? bad : a === 'CONST' ? constant : a)));
+    const short = write('short.csv', 'a,b\n1,2\n3,4\n7,8\n');
+    const wide = write('wide.csv', `a,b\n${grid((i) => `${i},${(i * 7) % 5}`)}\n`);
+    const constant = write('const.csv', `a,c\n${grid((i) => `${i},2`)}\n`);
+    const files: Record<string, string> = { SHORT: short, WIDE: wide, CONST: constant };
+    const r = run('fit', args.map((a) => files[a] ?? a));
     expect(r.code).not.toBe(0);
     expect(r.out).toBe('');
     const lines = r.err.trimEnd().split('\n');
     expect(lines).toHaveLength(1);
     expect(lines[0]).toMatch(pattern);
+  });
+
+  it('--help lists every option and exits 0', () => {
+    for (const script of ['fit', 'score'] as const) {
+      const r = run(script, ['--help']);
+      expect(r.code).toBe(0);
+      expect(r.err).toBe('');
+      expect(r.out).toMatch(/^usage: npm run/m);
+      expect(r.out).toContain('--out FILE');
+    }
+    const fit = run('fit', ['-h']).out;
+    for (const option of ['--columns', '--components', '--covariance', '--criterion', '--init', '--restarts', '--seed', '--tol', '--max-iter', '--reg', '--no-standardize', '--units', '--threads']) {
+      expect(fit).toContain(option);
+    }
+  });
+
+  it('accepts what a studio upload accepts: blank and NA cells, semicolons with decimal commas; counts what it left out', () => {
+    const rows = loadIris().slice(0, 100);
+    const lines = rows.map((r, i) => r.map((v, j) => (i === 3 && j === 1 ? '' : i === 7 && j === 2 ? 'NA' : i === 9 && j === 0 ? 'n/a?' : String(v).replace('.', ','))).join(';'));
+    const file = write('semi.csv', ['sl;sw;pl;pw', ...lines].join('\n'));
+    const r = run('fit', [file, '--components', '2', '--seed', '1']);
+    expect(r.code).toBe(0);
+    const model = parseModelJson(r.out);
+    expect(model.training.rows).toBe(97);
+    expect(model.features.map((f) => f.name)).toEqual(['sl', 'sw', 'pl', 'pw']);
+    // rows as a spreadsheet numbers them: data row i sits on row i + 2
+    expect(r.err).toContain('3 rows with a blank or a non-number in a chosen column left out (rows 5, 9, 11)');
+    expect(r.err).toContain('column "sl": 1 cell is not a number (row 11: "n/a?")');
+  });
+
+  it('--out writes the file; score heads its columns with the cluster names a studio download carries', () => {
+    const out = path.join(dir, 'named.json');
+    const fit = run('fit', [iris, '--components', '2', '--columns', 'pl,pw', '--out', out]);
+    expect(fit.code).toBe(0);
+    expect(fit.out).toBe('');
+    const model = parseModelJson(fs.readFileSync(out, 'utf8'));
+    const named = write('named-model.json', JSON.stringify({ ...model, clusters: [{ label: 'Small, petals' }, { label: 'Large "petals"' }] }));
+    const csv = write('few.csv', 'pl,pw\n1.4,0.2\n,1.0\n5.5,2.0\n');
+    const score = run('score', [named, csv]);
+    expect(score.code).toBe(0);
+    const lines = score.out.trim().split('\n');
+    expect(lines[0]).toBe('row,"Small, petals","Large ""petals""",best,log_density,typicality,unusual');
+    expect(lines[1]).toMatch(/^2,[^,]+,[^,]+,"Small, petals",/);
+    expect(lines[2]).toBe('3,,,,,,');
+    expect(lines[3]).toMatch(/,"Large ""petals""",/);
+    expect(score.err).toContain('1 row with a blank or a non-number in a chosen column left out (row 3)');
+  });
+
+  it('score refuses a model whose names do not match its components', () => {
+    const model = parseModelJson(run('fit', [iris, '--components', '2', '--columns', 'pl,pw']).out);
+    const m = write('mismatch.json', JSON.stringify({ ...model, clusters: [{ label: 'Only one' }] }));
+    const r = run('score', [m, iris]);
+    expect(r.code).toBe(2);
+    expect(r.err.trimEnd()).toBe('score: Invalid model JSON: clusters has 1 names but there are 2 weights.');
   });
 
   it('score rejects a malformed model with one line', () => {
