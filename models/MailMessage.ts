@@ -8,7 +8,7 @@ export class MailMessage extends Model<InferAttributes<MailMessage>, InferCreati
   declare text: string;
   declare html: CreationOptional<string | null>;
   declare kind: string;
-  declare status: CreationOptional<'pending' | 'sent' | 'failed'>;
+  declare status: CreationOptional<'pending' | 'sending' | 'sent' | 'failed'>;
   declare attempts: CreationOptional<number>;
   declare lastError: CreationOptional<string | null>;
   declare sentAt: CreationOptional<Date | null>;

@@ -18,6 +18,9 @@ export interface OutgoingMail {
 }
 
 export const MAIL_FROM = process.env.MAIL_FROM ?? 'Partwise <no-reply@partwise.local>';
+/** Where people reach a person: replies to any Partwise mail go to the support inbox. */
+export const SUPPORT_ADDRESS = process.env.PARTWISE_SUPPORT_EMAIL ?? 'support@partwise.local';
+const MAIL_REPLY_TO = SUPPORT_ADDRESS;
 const MAX_ATTEMPTS = 20;
 
 let transport: Transporter | undefined;
@@ -52,15 +55,23 @@ export async function enqueueMail(mail: OutgoingMail): Promise<MailMessage> {
   return row;
 }
 
+/**
+ * A claimed message is 'sending' until the SMTP answer; a deliverer that died
+ * mid-send leaves it claimed, and after this lease (longer than the transport's
+ * connection + greeting + socket timeouts) it counts as pending again.
+ */
+const SENDING_LEASE_MS = 60_000;
+
 async function deliverOne(row: MailMessage): Promise<boolean> {
-  // Claim the row first so two deliverers never send the same message.
+  // Claim the row first (pending → sending) so two deliverers never send the same message:
+  // while one waits for the SMTP server, the retry timer must not pick the row up again.
   const [claimed] = await MailMessage.update(
-    { attempts: row.attempts + 1 },
-    { where: { id: row.id, status: 'pending', attempts: row.attempts } },
+    { attempts: row.attempts + 1, status: 'sending' },
+    { where: { id: row.id, attempts: row.attempts, [Op.or]: [{ status: 'pending' }, { status: 'sending', updatedAt: { [Op.lt]: new Date(Date.now() - SENDING_LEASE_MS) } }] } },
   );
   if (claimed !== 1) return false;
   try {
-    await smtpTransport().sendMail({ from: MAIL_FROM, to: row.to, subject: row.subject, text: row.text, html: row.html ?? undefined, headers: { 'X-Partwise-Kind': row.kind, 'X-Partwise-Mail-Id': String(row.id) } });
+    await smtpTransport().sendMail({ from: MAIL_FROM, replyTo: MAIL_REPLY_TO, to: row.to, subject: row.subject, text: row.text, html: row.html ?? undefined, headers: { 'X-Partwise-Kind': row.kind, 'X-Partwise-Mail-Id': String(row.id) } });
     await MailMessage.update({ status: 'sent', sentAt: new Date(), lastError: null }, { where: { id: row.id } });
     return true;
   } catch (e) {
@@ -72,7 +83,12 @@ async function deliverOne(row: MailMessage): Promise<boolean> {
 
 /** Retry everything still pending (called on a timer by the server and by tests). */
 export async function deliverPendingMail(limit = 50): Promise<{ sent: number; pending: number }> {
-  const rows = await MailMessage.findAll({ where: { status: 'pending', attempts: { [Op.lt]: MAX_ATTEMPTS } }, order: [['id', 'ASC']], limit });
+  const stale = new Date(Date.now() - SENDING_LEASE_MS);
+  const rows = await MailMessage.findAll({
+    where: { attempts: { [Op.lt]: MAX_ATTEMPTS }, [Op.or]: [{ status: 'pending' }, { status: 'sending', updatedAt: { [Op.lt]: stale } }] },
+    order: [['id', 'ASC']],
+    limit,
+  });
   let sent = 0;
   for (const row of rows) if (await deliverOne(row)) sent++;
   const pending = await MailMessage.count({ where: { status: 'pending' } });

@@ -1,4 +1,4 @@
-import { enqueueMail } from '@/lib/mail';
+import { enqueueMail, SUPPORT_ADDRESS } from '@/lib/mail';
 import { ownersOf } from './search';
 
 /**
@@ -11,7 +11,7 @@ function appUrl(path: string): string {
   return new URL(path, base).toString();
 }
 
-const SIGN_OFF = '\n\nIf you think this is a mistake, reply to this e-mail and tell us what the calculator is for; a person from Partwise support will read it.\n\n— Partwise support';
+const SIGN_OFF = `\n\nIf you think this is a mistake, write to ${SUPPORT_ADDRESS} (replying to this e-mail reaches the same inbox) and tell us what the calculator is for; a person from Partwise support reads every message.\n\n— Partwise support`;
 
 export type SupportNotice =
   | { kind: 'embed-disabled'; title: string; token: string; reason: string }
