@@ -10,6 +10,8 @@ export default async function StudioLayout({ children }: { children: React.React
   const actor = await pageActor();
   if (!actor) redirect('/signin?callbackUrl=%2Fstudio');
   const [current, workspaces] = await Promise.all([pageCurrentWorkspace(), listMyWorkspaces(actor.user.id)]);
+  // Support staff have no workspace of their own: their place is the support console.
+  if (actor.isStaff && !current) redirect('/support');
   return (
     <div className="min-h-screen">
       <StudioHeader user={{ name: actor.user.name, email: actor.user.email }} isStaff={actor.isStaff} role={current?.role ?? null} workspaces={workspaces} currentWorkspaceId={current?.workspace.id ?? null} />

@@ -2,6 +2,7 @@
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import { ErrorNote } from '@/components/studio/StudioPage';
+import { servedVersionWords } from '@/lib/embeds/status-words';
 import { callApi, type ApiFailure } from './api';
 
 interface Version {
@@ -15,7 +16,7 @@ interface Version {
 }
 
 /** Published versions, newest first: which one is served, switch to another, publish again. */
-export function VersionList({ embedId, versions, activeVersionId, models, currentModelId, disabled }: { embedId: number; versions: Version[]; activeVersionId: number | null; models: { id: number; name: string }[]; currentModelId: number | null; disabled: boolean }) {
+export function VersionList({ embedId, versions, activeVersionId, models, currentModelId, disabled, calculatorStatus }: { embedId: number; versions: Version[]; activeVersionId: number | null; models: { id: number; name: string }[]; currentModelId: number | null; disabled: boolean; calculatorStatus: string }) {
   const router = useRouter();
   const [error, setError] = useState<ApiFailure | null>(null);
   const [busy, setBusy] = useState(false);
@@ -59,7 +60,7 @@ export function VersionList({ embedId, versions, activeVersionId, models, curren
               <td className="hidden py-2 pr-3 font-mono text-xs text-ink-faint md:table-cell" title={v.checksum}>{v.checksum.slice(0, 12)}…</td>
               <td className="py-2 text-right">
                 {v.id === activeVersionId ? (
-                  <span className="rounded-full bg-moss-100 px-3 py-1 text-xs font-bold text-moss-700">Served</span>
+                  <span className={`rounded-full px-3 py-1 text-xs font-bold ${calculatorStatus === 'active' ? 'bg-moss-100 text-moss-700' : 'bg-paper-deep text-ink-soft'}`}>{servedVersionWords(calculatorStatus)}</span>
                 ) : v.problem ? (
                   <span className="text-xs text-ink-faint">Cannot be served</span>
                 ) : (

@@ -1,7 +1,7 @@
 'use client';
 
 import { useRouter } from 'next/navigation';
-import { useState } from 'react';
+import { useEffect, useRef, useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { z } from 'zod';
@@ -25,15 +25,24 @@ export function ReasonForm(props: {
   /** Offer to close this many open reports along with the action. */
   openReports?: number;
   testId?: string;
+  /** Ask again before acting: what will happen, in one sentence, and the button that does it. */
+  confirm?: { question: string; confirmLabel: string };
 }) {
   const router = useRouter();
   const [banner, setBanner] = useState<{ kind: 'error' | 'done'; text: string } | null>(null);
   const { register, handleSubmit, formState, setError, reset, watch } = useForm<FormValues>({ resolver: zodResolver(formSchema), defaultValues: { reason: '', closeReports: true } });
   const { errors, isSubmitting } = formState;
   const length = (watch('reason') ?? '').length;
+  // A checked reason waiting for the second, deliberate click (only with `confirm`).
+  const [pending, setPending] = useState<FormValues | null>(null);
+  const confirmRef = useRef<HTMLDivElement>(null);
+  useEffect(() => {
+    if (pending) confirmRef.current?.focus();
+  }, [pending]);
 
-  const onSubmit = handleSubmit(async (values) => {
+  async function act(values: FormValues) {
     setBanner(null);
+    setPending(null);
     try {
       const body = props.openReports ? values : { reason: values.reason };
       const result = await postJson<{ ownersNotified?: number }>(props.url, body);
@@ -44,6 +53,11 @@ export function ReasonForm(props: {
       if (e instanceof SupportApiError && e.issues.some((i) => i.field === 'reason')) setError('reason', { message: e.issues.find((i) => i.field === 'reason')!.message });
       else setBanner({ kind: 'error', text: (e as Error).message });
     }
+  }
+
+  const onSubmit = handleSubmit(async (values) => {
+    if (props.confirm) setPending(values);
+    else await act(values);
   });
 
   const id = `${props.testId ?? 'reason'}-field`;
@@ -80,9 +94,23 @@ export function ReasonForm(props: {
           {banner.text}
         </p>
       ) : null}
-      <button type="submit" disabled={isSubmitting} className={props.tone === 'danger' ? 'pw-button bg-clay-500 hover:bg-clay-700' : 'pw-button'}>
-        {isSubmitting ? 'Working…' : props.submitLabel}
-      </button>
+      {pending && props.confirm ? (
+        <div ref={confirmRef} tabIndex={-1} role="group" aria-label="Confirm" className="space-y-3 rounded-lg border-2 border-clay-500 bg-clay-100/60 p-4 focus:outline-none" data-testid={`${props.testId ?? 'reason'}-confirm`}>
+          <p className="text-sm font-bold text-clay-700">{props.confirm.question}</p>
+          <div className="flex flex-wrap gap-2">
+            <button type="button" className="pw-button bg-clay-500 hover:bg-clay-700" onClick={() => act(pending)}>
+              {props.confirm.confirmLabel}
+            </button>
+            <button type="button" className="pw-button-quiet" onClick={() => setPending(null)}>
+              Not now
+            </button>
+          </div>
+        </div>
+      ) : (
+        <button type="submit" disabled={isSubmitting} className={props.tone === 'danger' ? 'pw-button bg-clay-500 hover:bg-clay-700' : 'pw-button'}>
+          {isSubmitting ? 'Working…' : props.submitLabel}
+        </button>
+      )}
     </form>
   );
 }

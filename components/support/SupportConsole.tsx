@@ -7,14 +7,15 @@ import { createColumnHelper, flexRender, getCoreRowModel, useReactTable, type So
 import type { CalculatorPage, CalculatorRow } from '@/lib/support/search';
 import { PAGE_SIZES, STATUS_FILTERS, type SearchQuery, type SortKey, type StatusFilter } from '@/lib/support/schemas';
 import { fmtCount, shortToken } from './format';
+import { STATUS_WORDS } from '@/lib/embeds/status-words';
 import { SupportStatus } from './SupportStatus';
 import { getJson, postJson } from './api';
 
 const STATUS_LABELS: Record<StatusFilter, string> = {
   any: 'Every calculator',
-  active: 'Live',
-  disabled: 'Switched off',
-  retired: 'Retired',
+  active: STATUS_WORDS.active,
+  disabled: STATUS_WORDS.disabled,
+  retired: STATUS_WORDS.retired,
   flagged: 'Flagged for review',
   reported: 'With open reports',
   suspended: 'Workspace suspended',

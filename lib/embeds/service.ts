@@ -143,10 +143,19 @@ export async function retireEmbed(acting: Acting, embedId: number): Promise<Embe
 export async function updateSettings(acting: Acting, embedId: number, settings: EmbedSettings): Promise<Embed> {
   const embed = await findEmbed(acting, embedId);
   if (embed.status === 'retired') throw new AppError('conflict', 'This calculator is retired.');
+  const before = { title: embed.title, allowedOrigins: [...embed.allowedOrigins], theme: embed.theme, accentColor: embed.accentColor, typicalityThreshold: embed.typicalityThreshold };
   const changed = Object.fromEntries(Object.entries(settings).filter(([, v]) => v !== undefined));
   await embed.update(changed);
   invalidateEmbed(embed.id);
-  if ('allowedOrigins' in changed) await audit(acting, 'embed.origins', embed, { allowedOrigins: embed.allowedOrigins });
+  // The form sends every field; the trail records only what really changed, each under its own name.
+  const origins = [...embed.allowedOrigins];
+  if (JSON.stringify(origins) !== JSON.stringify(before.allowedOrigins)) {
+    await audit(acting, 'embed.origins', embed, { added: origins.filter((o) => !before.allowedOrigins.includes(o)), removed: before.allowedOrigins.filter((o) => !origins.includes(o)) });
+  }
+  const others = (['title', 'theme', 'accentColor', 'typicalityThreshold'] as const).filter((k) => k in changed && embed[k] !== before[k]);
+  if (others.length) {
+    await audit(acting, 'embed.settings', embed, { changes: others.map((k) => ({ setting: k, from: before[k], to: embed[k] })) });
+  }
   return embed;
 }
 

@@ -125,7 +125,19 @@ describe('support console in the browser', () => {
     expect(await form.getByRole('alert').textContent()).toMatch(/at least 5 characters/);
     await form.getByLabel(/Reason/).fill(REASON);
     await form.getByRole('button', { name: 'Switch off' }).click();
+    // A second, deliberate step: nothing has changed until staff confirm.
+    const confirm = page.getByTestId('disable-form-confirm');
+    await confirm.waitFor();
+    expect(await confirm.textContent()).toContain('on every website now');
+    await screenshot(page, 'support-4a-confirm');
+    expect((await Embed.findByPk(embed.id))!.status).toBe('active');
+    await confirm.getByRole('button', { name: 'Not now' }).click();
+    await confirm.waitFor({ state: 'detached' });
+    expect((await Embed.findByPk(embed.id))!.status).toBe('active');
+    await form.getByRole('button', { name: 'Switch off' }).click();
+    await page.getByTestId('disable-form-confirm').getByRole('button', { name: 'Yes, switch it off' }).click();
     await page.getByTestId('disabled-banner').waitFor();
+    expect(await page.getByText('Switched off by support').first().isVisible()).toBe(true);
     expect(await page.getByTestId('disabled-banner').textContent()).toContain(REASON);
     await screenshot(page, 'support-4-switched-off');
 
@@ -137,6 +149,15 @@ describe('support console in the browser', () => {
     expect(score.status).toBe(410);
     await screenshot(visitor, 'support-5-visitor-unavailable');
     await visitor.close();
+
+    // The owner's studio uses the same words, and the version list no longer claims it is served.
+    const ownerPage = await (await browser.newContext()).newPage();
+    await signIn(ownerPage, DEMO_USERS.owner, `/studio/calculators/${embed.id}`);
+    await ownerPage.getByText('Switched off by support').first().waitFor();
+    expect(await ownerPage.getByText('Selected, not answering: switched off by support').count()).toBe(1);
+    expect(await ownerPage.getByText('Served', { exact: true }).count()).toBe(0);
+    await screenshot(ownerPage, 'support-5b-owner-sees-switched-off');
+    await ownerPage.close();
 
     // The owner was e-mailed with the reason.
     const mail = await MailMessage.findOne({ where: { to: DEMO_USERS.owner.email, kind: 'support-embed-disabled' }, order: [['id', 'DESC']] });
@@ -159,6 +180,17 @@ describe('support console in the browser', () => {
     await back.goto(appUrl(`/embed/${embed.token}`));
     expect(await back.getByText('This calculator is not available').count()).toBe(0);
     await back.close();
+  });
+
+  it('staff who sign in without a destination land on the support console, not the studio', async () => {
+    const staff = await (await browser.newContext()).newPage();
+    await staff.goto(appUrl('/signin'));
+    await staff.getByLabel('E-mail').fill(DEMO_USERS.staff.email);
+    await staff.getByLabel('Password').fill(DEMO_USERS.staff.password);
+    await staff.getByRole('button', { name: 'Sign in' }).click();
+    await staff.waitForURL((u) => u.pathname === '/support');
+    await staff.getByRole('heading', { name: 'Calculators across Partwise' }).waitFor();
+    await staff.close();
   });
 
   it('a workspace owner who opens the console is told it is for staff only', async () => {

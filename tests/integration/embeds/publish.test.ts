@@ -1,3 +1,4 @@
+import { actionLabel, detailSummary } from '@/lib/support/audit-words';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { NextRequest } from 'next/server';
 import { makeRequest } from '../../helpers/auth';
@@ -184,6 +185,15 @@ describe('allowed origins and the frame policy', () => {
     expect((await Embed.findByPk(embed.id))!.title).not.toBe('Taken over');
     await settingsRoute(await makeRequest(`/api/embeds/${embed.id}`, { method: 'PATCH', userId: ws.owner.id, json: { allowedOrigins: ['https://club.example'] } }), idCtx(embed.id));
     expect(await AuditEvent.count({ where: { action: 'embed.origins', targetId: String(embed.id) } })).toBe(1);
+    // The settings form sends every field: a theme change with the same sites is a settings change, not a sites change.
+    await settingsRoute(await makeRequest(`/api/embeds/${embed.id}`, { method: 'PATCH', userId: ws.owner.id, json: { allowedOrigins: ['https://club.example'], theme: 'dark', title: embed.title } }), idCtx(embed.id));
+    expect(await AuditEvent.count({ where: { action: 'embed.origins', targetId: String(embed.id) } })).toBe(1);
+    const settings = await AuditEvent.findAll({ where: { action: 'embed.settings', targetId: String(embed.id) } });
+    expect(settings).toHaveLength(1);
+    const detail = (typeof settings[0].detail === 'string' ? JSON.parse(settings[0].detail) : settings[0].detail) as Record<string, unknown>;
+    expect(detail.changes).toEqual([{ setting: 'theme', from: 'light', to: 'dark' }]);
+    expect(detailSummary(detail)).toBe(`Calculator: ${embed.title} · Changed: theme light → dark`);
+    expect(actionLabel('embed.settings')).toBe('Calculator settings changed');
     expect(await MixtureModel.count({ where: { workspaceId: ws.workspace.id } })).toBeGreaterThan(0);
   });
 });

@@ -73,7 +73,7 @@ export default async function CalculatorPage({ params }: { params: Promise<{ id:
             <SettingsForm embedId={embed.id} disabled={retired} initial={{ title: embed.title, allowedOrigins: embed.allowedOrigins, theme: embed.theme, accentColor: embed.accentColor, typicalityThreshold: embed.typicalityThreshold }} />
           </Section>
           <Section title="Versions" id="versions">
-            <VersionList embedId={embed.id} versions={versions} activeVersionId={embed.activeVersionId} models={models} currentModelId={embed.mixtureModelId} disabled={retired} />
+            <VersionList embedId={embed.id} versions={versions} activeVersionId={embed.activeVersionId} models={models} currentModelId={embed.mixtureModelId} disabled={retired} calculatorStatus={embed.status} />
           </Section>
           <Section title="Address and retirement" id="token">
             <TokenActions embedId={embed.id} retired={retired} />

@@ -146,7 +146,8 @@ export default async function SupportCalculatorPage({ params }: Props) {
                 url={`/api/support/calculators/${c.id}/disable`}
                 title="Switch this calculator off"
                 explain="Visitors then see a neutral “not available” notice and no new answers are scored. The owner is e-mailed your reason. Nothing is deleted."
-                submitLabel="Switch off"
+                submitLabel="Switch off…"
+                confirm={{ question: `Switch off “${c.title}” on every website now? Visitors see “not available” until support switches it back on, and the owner is e-mailed your reason.`, confirmLabel: 'Yes, switch it off' }}
                 tone="danger"
                 placeholder="What is wrong, in words the owner will understand"
                 openReports={openReports}
@@ -185,7 +186,8 @@ export default async function SupportCalculatorPage({ params }: Props) {
                 url={`/api/support/workspaces/${c.workspace.id}/suspend`}
                 title={`Suspend all of ${c.workspace.name}`}
                 explain="Every calculator of this workspace stops answering at once. Use it for a workspace-wide problem; the owners are e-mailed."
-                submitLabel="Suspend the workspace"
+                submitLabel="Suspend the workspace…"
+                confirm={{ question: `Stop every calculator of ${c.workspace.name} now? Each one shows “not available” until the suspension is lifted, and the owners are e-mailed.`, confirmLabel: 'Yes, suspend the workspace' }}
                 tone="danger"
                 placeholder="Why every calculator of this workspace must stop"
                 testId="suspend-form"
