@@ -1,5 +1,14 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
 
+/** One line of an invoice as the payment service itemised it. */
+export interface InvoiceLine {
+  description: string;
+  amount: number;
+  proration: boolean;
+  periodStart: string | null;
+  periodEnd: string | null;
+}
+
 export class Invoice extends Model<InferAttributes<Invoice>, InferCreationAttributes<Invoice>> {
   declare id: CreationOptional<number>;
   declare workspaceId: ForeignKey<number>;
@@ -14,6 +23,12 @@ export class Invoice extends Model<InferAttributes<Invoice>, InferCreationAttrib
   declare periodEnd: CreationOptional<Date | null>;
   declare paidAt: CreationOptional<Date | null>;
   declare receiptSentAt: CreationOptional<Date | null>;
+  /** Sum of the lines before credit (cents; negative for a downgrade). */
+  declare subtotal: CreationOptional<number | null>;
+  /** The customer's balance before and after this invoice; negative = credit. */
+  declare startingBalance: CreationOptional<number>;
+  declare endingBalance: CreationOptional<number>;
+  declare lines: CreationOptional<InvoiceLine[]>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -32,6 +47,10 @@ export class Invoice extends Model<InferAttributes<Invoice>, InferCreationAttrib
         periodEnd: { type: DataTypes.DATE, allowNull: true },
         paidAt: { type: DataTypes.DATE, allowNull: true },
         receiptSentAt: { type: DataTypes.DATE, allowNull: true },
+        subtotal: { type: DataTypes.INTEGER, allowNull: true },
+        startingBalance: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
+        endingBalance: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
+        lines: { type: DataTypes.JSON, allowNull: false, defaultValue: [] },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

@@ -14,7 +14,9 @@ export default async function StudioLayout({ children }: { children: React.React
   if (actor.isStaff && !current) redirect('/support');
   return (
     <div className="min-h-screen">
-      <StudioHeader user={{ name: actor.user.name, email: actor.user.email }} isStaff={actor.isStaff} role={current?.role ?? null} workspaces={workspaces} currentWorkspaceId={current?.workspace.id ?? null} />
+      <div className="print:hidden">
+        <StudioHeader user={{ name: actor.user.name, email: actor.user.email }} isStaff={actor.isStaff} role={current?.role ?? null} workspaces={workspaces} currentWorkspaceId={current?.workspace.id ?? null} />
+      </div>
       <main className="mx-auto max-w-6xl px-6 py-8">{children}</main>
     </div>
   );

@@ -2,6 +2,7 @@
 
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
+import type { PlanChangePreview } from '@/lib/billing/subscriptions';
 import { billingRequest } from './api';
 import { bytes, day, euros, whole } from './format';
 
@@ -33,7 +34,20 @@ export function PlanChooser({ plans, currentPlan, paid, cancelAtPeriodEnd, perio
   const [pending, setPending] = useState<string | null>(null);
   const [confirming, setConfirming] = useState<string | null>(null);
   const [error, setError] = useState<string | null>(null);
+  // The payment service's own figures for the change on offer, fetched when the owner opens the confirm step.
+  const [preview, setPreview] = useState<{ plan: string; data?: PlanChangePreview; error?: string } | null>(null);
   const current = plans.find((p) => p.id === currentPlan);
+
+  async function openConfirm(planId: string) {
+    setConfirming(planId);
+    setPreview({ plan: planId });
+    try {
+      const { preview: data } = await billingRequest<{ preview: PlanChangePreview }>(`/api/billing/plan/preview?plan=${encodeURIComponent(planId)}`, 'GET');
+      setPreview((p) => (p?.plan === planId ? { plan: planId, data } : p));
+    } catch (e) {
+      setPreview((p) => (p?.plan === planId ? { plan: planId, error: (e as Error).message } : p));
+    }
+  }
 
   async function act(planId: string) {
     setError(null);
@@ -100,15 +114,16 @@ export function PlanChooser({ plans, currentPlan, paid, cancelAtPeriodEnd, perio
               </dl>
               <div className="mt-auto pt-4">
                 {label && confirming !== p.id && (
-                  <button type="button" className={p.monthlyPrice === 0 ? 'pw-button-quiet w-full' : 'pw-button w-full'} disabled={pending !== null} onClick={() => (resumable ? act(p.id) : setConfirming(p.id))}>
+                  <button type="button" className={p.monthlyPrice === 0 ? 'pw-button-quiet w-full' : 'pw-button w-full'} disabled={pending !== null} onClick={() => (resumable ? act(p.id) : openConfirm(p.id))}>
                     {pending === p.id ? 'Working…' : label}
                   </button>
                 )}
                 {confirming === p.id && (
                   <div className="rounded-lg bg-paper p-3 text-sm ring-1 ring-ink/10">
                     <p>{consequence(p)}</p>
+                    <PreviewFigures preview={preview?.plan === p.id ? preview : null} />
                     <div className="mt-3 flex gap-2">
-                      <button type="button" className="pw-button" disabled={pending !== null} onClick={() => act(p.id)}>
+                      <button type="button" className="pw-button" disabled={pending !== null || !(preview?.plan === p.id && preview.data)} onClick={() => act(p.id)}>
                         {pending === p.id ? 'Working…' : !paid ? 'Go to payment' : 'Confirm'}
                       </button>
                       <button type="button" className="pw-button-quiet" disabled={pending !== null} onClick={() => setConfirming(null)}>
@@ -122,6 +137,45 @@ export function PlanChooser({ plans, currentPlan, paid, cancelAtPeriodEnd, perio
           );
         })}
       </ul>
+    </div>
+  );
+}
+
+/** The amounts of a change, as the payment service will invoice them, shown before Confirm. */
+function PreviewFigures({ preview }: { preview: { data?: PlanChangePreview; error?: string } | null }) {
+  if (!preview || (!preview.data && !preview.error)) return <p className="mt-2 text-ink-soft" role="status">Working out the amount…</p>;
+  if (preview.error) return <p className="mt-2 font-bold text-clay-700" role="alert">{preview.error}</p>;
+  const d = preview.data!;
+  const money = (c: number) => euros(c, d.currency);
+  if (d.kind === 'ends') return <p className="mt-2 font-bold" data-testid="change-amount">Nothing is charged for this change.</p>;
+  return (
+    <div className="mt-2 space-y-1" data-testid="change-preview">
+      {d.kind === 'prorated' && d.lines.length > 0 && (
+        <ul className="space-y-0.5 text-ink-soft">
+          {d.lines.map((l, i) => (
+            <li key={i} className="flex justify-between gap-3">
+              <span>{l.description}</span>
+              <span className="tabular-nums">{money(l.amount)}</span>
+            </li>
+          ))}
+        </ul>
+      )}
+      {d.creditUsed > 0 && (
+        <p className="flex justify-between gap-3 text-ink-soft">
+          <span>Credit on account used</span>
+          <span className="tabular-nums">{money(-d.creditUsed)}</span>
+        </p>
+      )}
+      <p className="flex justify-between gap-3 font-bold" data-testid="change-amount">
+        <span>{d.kind === 'checkout' ? 'To pay on the payment page' : 'Charged to your card now'}</span>
+        <span className="tabular-nums">{money(d.amountDue)}</span>
+      </p>
+      {d.creditAfter > 0 && (
+        <p className="flex justify-between gap-3 font-bold text-moss-700" data-testid="change-credit">
+          <span>Credit kept for your next invoices</span>
+          <span className="tabular-nums">{money(d.creditAfter)}</span>
+        </p>
+      )}
     </div>
   );
 }

@@ -132,6 +132,60 @@ export async function changePlan(actor: WorkspaceActor, plan: PlanId, request: R
   return Subscription.findOne({ where: { workspaceId: actor.workspace.id } });
 }
 
+/** What a plan change would cost, before the owner confirms it (amounts in cents). */
+export interface PlanChangePreview {
+  /** checkout: a first paid plan, paid on the payment page; prorated: paid → paid now; ends: paid → free at the period's end. */
+  kind: 'checkout' | 'prorated' | 'ends';
+  plan: PlanId;
+  lines: { description: string; amount: number }[];
+  /** Credit on account taken first. */
+  creditUsed: number;
+  /** Charged to the card now. */
+  amountDue: number;
+  /** Credit left on account afterwards, used on later invoices. */
+  creditAfter: number;
+  /** The end of the period the change runs to (ISO), when there is a subscription. */
+  periodEnd: string | null;
+  currency: string;
+}
+
+/**
+ * Ask the payment service what changePlan would invoice now, changing nothing, so the
+ * confirm step shows the real prorated amount and any credit.
+ */
+export async function previewPlanChange(actor: WorkspaceActor, plan: PlanId): Promise<PlanChangePreview> {
+  const { row, remote } = await currentSubscription(actor);
+  const periodEnd = row.currentPeriodEnd?.toISOString() ?? null;
+  const empty = { lines: [], creditUsed: 0, creditAfter: 0, currency: 'eur', periodEnd };
+  if (!remote) {
+    if (plan === DEFAULT_PLAN) throw new AppError('conflict', `This workspace is already on ${PLANS[DEFAULT_PLAN].name}.`);
+    return { ...empty, kind: 'checkout', plan, amountDue: PLANS[plan].monthlyPrice, lines: [{ description: `${PLANS[plan].name}, first month`, amount: PLANS[plan].monthlyPrice }] };
+  }
+  if (plan === DEFAULT_PLAN) return { ...empty, kind: 'ends', plan, amountDue: 0 };
+  if (plan === row.plan && !row.cancelAtPeriodEnd) throw new AppError('conflict', `This workspace is already on ${PLANS[plan].name}.`);
+  const price = await priceIdForPlan(plan);
+  const item = remote.items.data[0];
+  const preview = await callPayments('working out the price of the change', (client) =>
+    client.invoices.createPreview({
+      customer: typeof remote.customer === 'string' ? remote.customer : remote.customer.id,
+      subscription: remote.id,
+      subscription_details: { items: [{ id: item.id, price }], proration_behavior: 'always_invoice' },
+    }),
+  );
+  const before = Math.max(0, -(preview.starting_balance ?? 0));
+  const after = Math.max(0, -(preview.ending_balance ?? 0));
+  return {
+    kind: 'prorated',
+    plan,
+    lines: (preview.lines?.data ?? []).map((l) => ({ description: l.description ?? '', amount: l.amount })),
+    creditUsed: Math.max(0, before - after),
+    amountDue: preview.amount_due,
+    creditAfter: after,
+    periodEnd,
+    currency: preview.currency ?? 'eur',
+  };
+}
+
 export async function cancelAtPeriodEnd(actor: WorkspaceActor, request: Request) {
   return setCancel(actor, true, request);
 }

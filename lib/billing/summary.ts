@@ -1,7 +1,9 @@
 import { QueryTypes } from 'sequelize';
 import { PLANS, PLAN_IDS, type Plan, type PlanId } from '@/lib/plans';
 import { monthPeriod, workspaceMonthlyAnswers } from '@/lib/usage';
+import { AppError } from '@/lib/errors';
 import { Invoice, Membership, Subscription, sequelize } from '@/models';
+import type { InvoiceLine } from '@/models/Invoice';
 import { allowanceState, countLiveCalculators, pauseThreshold, workspacePlan, type AllowanceState } from './limits';
 
 /**
@@ -32,6 +34,8 @@ export interface BillingSummary {
   answers: { state: AllowanceState; pauseAt: number };
   usage: UsageMeter[];
   plans: { id: PlanId; name: string; monthlyPrice: number; limits: Plan['limits'] }[];
+  /** Credit on account in cents (≥ 0): what earlier changes left, used first on the next invoices. */
+  credit: number;
 }
 
 export async function usageMeters(workspaceId: number, plan: Plan, period = monthPeriod()): Promise<UsageMeter[]> {
@@ -55,7 +59,12 @@ export async function usageMeters(workspaceId: number, plan: Plan, period = mont
 }
 
 export async function billingSummary(workspaceId: number, period = monthPeriod()): Promise<BillingSummary> {
-  const [plan, row] = await Promise.all([workspacePlan(workspaceId), Subscription.findOne({ where: { workspaceId } })]);
+  const [plan, row, latest] = await Promise.all([
+    workspacePlan(workspaceId),
+    Subscription.findOne({ where: { workspaceId } }),
+    // Every change of the balance comes with an invoice, so the newest one's ending balance is the balance now.
+    Invoice.findOne({ where: { workspaceId }, order: [['createdAt', 'DESC'], ['id', 'DESC']], attributes: ['endingBalance'] }),
+  ]);
   const usage = await usageMeters(workspaceId, plan, period);
   const answers = usage[0];
   return {
@@ -71,6 +80,7 @@ export async function billingSummary(workspaceId: number, period = monthPeriod()
     answers: { state: allowanceState(answers.used, answers.limit), pauseAt: pauseThreshold(answers.limit) },
     usage,
     plans: PLAN_IDS.map((id) => ({ id, name: PLANS[id].name, monthlyPrice: PLANS[id].monthlyPrice, limits: PLANS[id].limits })),
+    credit: Math.max(0, -(latest?.endingBalance ?? 0)),
   };
 }
 
@@ -85,11 +95,21 @@ export interface InvoiceView {
   periodEnd: string | null;
   paidAt: string | null;
   createdAt: string;
+  subtotal: number | null;
+  startingBalance: number;
+  endingBalance: number;
 }
 
-export async function listInvoices(workspaceId: number, limit = 50): Promise<InvoiceView[]> {
-  const rows = await Invoice.findAll({ where: { workspaceId }, order: [['createdAt', 'DESC'], ['id', 'DESC']], limit });
-  return rows.map((r) => ({
+export interface InvoiceDetail extends InvoiceView {
+  lines: InvoiceLine[];
+  /** Credit taken from the balance by this invoice (≥ 0). */
+  creditUsed: number;
+  /** Credit this invoice added to the balance (≥ 0), e.g. a downgrade's unused time. */
+  creditAdded: number;
+}
+
+function invoiceView(r: Invoice): InvoiceView {
+  return {
     id: r.id,
     number: r.number,
     amountDue: r.amountDue,
@@ -100,5 +120,23 @@ export async function listInvoices(workspaceId: number, limit = 50): Promise<Inv
     periodEnd: r.periodEnd?.toISOString() ?? null,
     paidAt: r.paidAt?.toISOString() ?? null,
     createdAt: r.createdAt.toISOString(),
-  }));
+    subtotal: r.subtotal,
+    startingBalance: r.startingBalance,
+    endingBalance: r.endingBalance,
+  };
+}
+
+/** One invoice of the workspace with its lines; another workspace's id is simply not found. */
+export async function findInvoice(workspaceId: number, id: number): Promise<InvoiceDetail> {
+  const row = await Invoice.findOne({ where: { id, workspaceId } });
+  if (!row) throw new AppError('not_found', 'There is no such invoice in this workspace.');
+  const lines = (typeof row.lines === 'string' ? JSON.parse(row.lines) : row.lines) as InvoiceLine[];
+  const before = Math.max(0, -row.startingBalance);
+  const after = Math.max(0, -row.endingBalance);
+  return { ...invoiceView(row), lines: Array.isArray(lines) ? lines : [], creditUsed: Math.max(0, before - after), creditAdded: Math.max(0, after - before) };
+}
+
+export async function listInvoices(workspaceId: number, limit = 50): Promise<InvoiceView[]> {
+  const rows = await Invoice.findAll({ where: { workspaceId }, order: [['createdAt', 'DESC'], ['id', 'DESC']], limit });
+  return rows.map(invoiceView);
 }

@@ -2,7 +2,9 @@ import type Stripe from 'stripe';
 import { recordAudit } from '@/lib/audit';
 import { enqueueMail } from '@/lib/mail';
 import { DEFAULT_PLAN, getPlan } from '@/lib/plans';
+import { formatDay, formatMoney } from '@/components/billing/format';
 import { Invoice, Subscription, Workspace } from '@/models';
+import type { InvoiceLine } from '@/models/Invoice';
 import { planForPrice } from './catalog';
 import { ownerEmails } from './limits';
 
@@ -113,6 +115,10 @@ export async function syncInvoice(inv: Stripe.Invoice): Promise<Invoice | null> 
     periodStart: toDate(inv.period_start),
     periodEnd: toDate(inv.period_end),
     paidAt: toDate(inv.status_transitions?.paid_at),
+    subtotal: inv.subtotal ?? null,
+    startingBalance: inv.starting_balance ?? 0,
+    endingBalance: inv.ending_balance ?? 0,
+    lines: invoiceLines(inv),
   };
   const existing = await Invoice.findOne({ where: { invoiceRef: values.invoiceRef } });
   let invoice: Invoice;
@@ -126,27 +132,66 @@ export async function syncInvoice(inv: Stripe.Invoice): Promise<Invoice | null> 
       await invoice.update(values);
     }
   }
-  if (invoice.status === 'paid') await sendReceipt(invoice, invoiceSubscriptionRef(inv), (inv.lines?.data ?? []).map((l) => ({ description: l.description ?? '', amount: l.amount })));
+  if (invoice.status === 'paid') await sendReceipt(invoice);
   return invoice;
 }
 
-const euros = (cents: number, currency = 'eur') => `${currency === 'eur' ? '€' : `${currency.toUpperCase()} `}${(cents / 100).toFixed(2)}`;
-const day = (d: Date | null) => (d ? d.toISOString().slice(0, 10) : '—');
+/** The invoice's lines as we keep them (no payment-service ids). */
+export function invoiceLines(inv: Stripe.Invoice): InvoiceLine[] {
+  return (inv.lines?.data ?? []).map((l) => {
+    const raw = l as unknown as { proration?: boolean; parent?: { subscription_item_details?: { proration?: boolean } } };
+    return {
+      description: l.description ?? '',
+      amount: l.amount,
+      proration: !!(raw.proration ?? raw.parent?.subscription_item_details?.proration),
+      periodStart: toDate(l.period?.start)?.toISOString() ?? null,
+      periodEnd: toDate(l.period?.end)?.toISOString() ?? null,
+    };
+  });
+}
 
-async function sendReceipt(invoice: Invoice, subscriptionRef: string | null, lines: { description: string; amount: number }[]): Promise<void> {
+async function sendReceipt(invoice: Invoice): Promise<void> {
   // Claim first: only one delivery of the "paid" news sends the receipt.
   const [claimed] = await Invoice.update({ receiptSentAt: new Date() }, { where: { id: invoice.id, receiptSentAt: null } });
   if (claimed !== 1) return;
   const [workspace, sub, to] = await Promise.all([Workspace.findByPk(invoice.workspaceId), Subscription.findOne({ where: { workspaceId: invoice.workspaceId } }), ownerEmails(invoice.workspaceId)]);
-  const plan = getPlan(sub?.plan);
-  const text = [
-    `Thank you — we received ${euros(invoice.amountPaid, invoice.currency)} for ${workspace?.name ?? 'your workspace'}.`,
-    `Invoice ${invoice.number ?? invoice.invoiceRef}, paid ${day(invoice.paidAt)}, for ${day(invoice.periodStart)} to ${day(invoice.periodEnd)}.`,
-    lines.length ? lines.map((l) => `  ${l.description}: ${euros(l.amount, invoice.currency)}`).join('\n') : '',
-    `Plan: ${plan.name}${subscriptionRef ? ` (subscription ${subscriptionRef})` : ''}.`,
-    'Every invoice is listed in Partwise Studio → Billing.',
-  ].filter(Boolean).join('\n\n');
-  for (const address of to) {
-    await enqueueMail({ to: address, subject: `Partwise receipt ${invoice.number ?? ''}: ${euros(invoice.amountPaid, invoice.currency)} paid`.replace('  ', ' '), text, kind: 'receipt' });
-  }
+  const { subject, text } = receiptText(invoice, { workspaceName: workspace?.name ?? 'your workspace', planName: getPlan(sub?.plan).name, link: appLink(`/studio/billing/invoices/${invoice.id}`) });
+  for (const address of to) await enqueueMail({ to: address, subject, text, kind: 'receipt' });
+}
+
+function appLink(path: string): string {
+  return new URL(path, process.env.NEXTAUTH_URL ?? 'http://localhost:3000').toString();
+}
+
+/**
+ * The receipt in the app's own formats: amounts as "−€78.98", days as "2 Dec 2026",
+ * no payment-service ids. An invoice that charged nothing says so and names the
+ * credit it left instead of thanking for "€0.00".
+ */
+export function receiptText(invoice: Pick<Invoice, 'number' | 'amountPaid' | 'currency' | 'paidAt' | 'periodStart' | 'periodEnd' | 'startingBalance' | 'endingBalance' | 'lines'>, ctx: { workspaceName: string; planName: string; link: string }): { subject: string; text: string } {
+  const money = (cents: number) => formatMoney(cents, invoice.currency);
+  const number = invoice.number ? `invoice ${invoice.number}` : 'your invoice';
+  const credit = -invoice.endingBalance;
+  const creditUsed = Math.max(0, -invoice.startingBalance) - Math.max(0, credit);
+  const lines = parseLines(invoice.lines);
+  const body = [
+    invoice.amountPaid > 0
+      ? `Thank you — we received ${money(invoice.amountPaid)} for ${ctx.workspaceName}.`
+      : `Nothing was charged for ${ctx.workspaceName}: ${credit > 0 ? `${money(credit)} is kept as credit and is used first on your next invoices.` : 'the amount due was zero.'}`,
+    `${number[0].toUpperCase()}${number.slice(1)}, ${invoice.paidAt ? `settled on ${formatDay(invoice.paidAt)}, ` : ''}for ${formatDay(invoice.periodStart)} to ${formatDay(invoice.periodEnd)}.`,
+    lines.length ? lines.map((l) => `  ${l.description}: ${money(l.amount)}`).join('\n') : '',
+    creditUsed > 0 ? `Credit used: ${money(creditUsed)}.` : '',
+    invoice.amountPaid > 0 && credit > 0 ? `Credit left for your next invoices: ${money(credit)}.` : '',
+    `Plan: ${ctx.planName}.`,
+    `The invoice with every line, ready to print or save as PDF: ${ctx.link}`,
+  ]
+    .filter(Boolean)
+    .join('\n\n');
+  const subject = invoice.amountPaid > 0 ? `Partwise receipt for ${number}: ${money(invoice.amountPaid)} paid` : `Partwise ${number}: nothing to pay${credit > 0 ? `, ${money(credit)} credit` : ''}`;
+  return { subject, text: body };
+}
+
+function parseLines(lines: unknown): InvoiceLine[] {
+  const value = typeof lines === 'string' ? JSON.parse(lines) : lines;
+  return Array.isArray(value) ? (value as InvoiceLine[]) : [];
 }

@@ -67,6 +67,12 @@ export default async function BillingPage({ searchParams }: { searchParams: Prom
               </p>
             )}
           </div>
+          {summary.credit > 0 && (
+            <p className="rounded-lg bg-moss-50 px-4 py-3 text-sm" data-testid="credit">
+              <span className="block font-bold text-moss-900">Credit on account: {euros(summary.credit)}</span>
+              <span className="text-ink-soft">Left by an earlier plan change; it is used first on your next invoices.</span>
+            </p>
+          )}
           {sub.paid && <SelfServiceButton />}
         </div>
       </Section>

@@ -82,7 +82,7 @@ export function closedCheckoutPage(session: CheckoutSession): string {
 export function invoicePage(invoice: Invoice, merchant: string): string {
   const rows = invoice.lines.data.map((l) => `<tr><td>${esc(l.description)}</td><td class="n">${euros(l.amount)}</td></tr>`).join('');
   const body = `<main style="grid-template-columns:1fr"><section class="panel">
-  <h2>${esc(merchant)}</h2><h1>Invoice ${esc(invoice.number)}</h1>
+  <h2>${esc(merchant)}</h2><h1>Invoice ${esc(invoice.number ?? "preview")}</h1>
   <p class="muted">Status: ${esc(invoice.status)} · issued ${new Date(invoice.created * 1000).toISOString().slice(0, 10)}</p>
   <table>${rows}
   ${invoice.starting_balance ? `<tr><td>Credit applied</td><td class="n">${euros(Math.max(invoice.starting_balance, -invoice.subtotal))}</td></tr>` : ''}

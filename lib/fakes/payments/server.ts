@@ -180,6 +180,13 @@ export async function startPaymentsFake(opts: PaymentsFakeOptions = {}): Promise
       const items = [...state.invoices.values()].filter((i) => (!customer || i.customer === customer) && (!subscription || i.subscription === subscription)).reverse();
       return listOf('/v1/invoices', items, str(params.limit));
     }
+    if (a === 'invoices' && b === 'create_preview' && method === 'POST') {
+      const details = obj(params.subscription_details);
+      return state.previewSubscriptionChange(str(params.subscription) ?? '', {
+        items: list(details.items).map((i) => ({ id: str(obj(i).id), price: str(obj(i).price) })),
+        proration_behavior: str(details.proration_behavior),
+      });
+    }
     if (a === 'invoices' && b && method === 'GET') return state.invoice(b);
 
     if (a === 'events' && b && method === 'GET') return state.event(b);

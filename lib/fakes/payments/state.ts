@@ -123,7 +123,8 @@ export interface InvoiceLine extends Json {
 export interface Invoice extends Json {
   id: string;
   object: 'invoice';
-  number: string;
+  /** null on a preview, which is never issued. */
+  number: string | null;
   customer: string;
   subscription: string | null;
   parent: { type: 'subscription_details'; subscription_details: { subscription: string; metadata: Record<string, string> } } | null;
@@ -214,6 +215,11 @@ const notFound = (what: string, id: string, param = 'id') => new FakeApiError(40
 export const nowSeconds = () => Math.floor(Date.now() / 1000);
 
 /** One calendar month after `start` (both in seconds), as the service bills monthly plans. */
+/** Days in line descriptions as a person writes them ("2 Dec 2026", UTC). */
+function lineDay(seconds: number): string {
+  return new Date(seconds * 1000).toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' });
+}
+
 export function addMonth(start: number): number {
   const d = new Date(start * 1000);
   const day = d.getUTCDate();
@@ -562,8 +568,7 @@ export class PaymentsState {
   }
 
   private periodLabel(start: number, end: number): string {
-    const f = (s: number) => new Date(s * 1000).toISOString().slice(0, 10);
-    return `${f(start)} – ${f(end)}`;
+    return `${lineDay(start)} – ${lineDay(end)}`;
   }
 
   private line(description: string, amount: number, start: number, end: number, proration: boolean): InvoiceLine {
@@ -638,14 +643,8 @@ export class PaymentsState {
       const newPrice = this.price(change.price!, 'items[0][price]');
       if (newPrice.id !== item.price.id) {
         previous.items = structuredClone(sub.items);
-        const oldPrice = item.price;
         const now = nowSeconds();
-        const span = Math.max(1, sub.current_period_end - sub.current_period_start);
-        const unused = Math.min(1, Math.max(0, (sub.current_period_end - now) / span));
-        const lines = [
-          this.line(`Unused time on ${this.productName(oldPrice)} after ${new Date(now * 1000).toISOString().slice(0, 10)}`, -Math.round(oldPrice.unit_amount * item.quantity * unused), now, sub.current_period_end, true),
-          this.line(`Remaining time on ${this.productName(newPrice)} after ${new Date(now * 1000).toISOString().slice(0, 10)}`, Math.round(newPrice.unit_amount * item.quantity * unused), now, sub.current_period_end, true),
-        ];
+        const lines = this.prorationLines(sub, item, newPrice, now);
         item.price = newPrice;
         const behaviour = input.proration_behavior ?? 'create_prorations';
         if (behaviour === 'always_invoice') {
@@ -668,6 +667,60 @@ export class PaymentsState {
     if (Object.keys(previous).length) this.emit('customer.subscription.updated', sub, previous);
     if (invoice) this.emit('invoice.paid', invoice);
     return sub;
+  }
+
+  /** The two proration lines of a price change now: credit for the old price's unused time, charge for the new one's. */
+  private prorationLines(sub: Subscription, item: Subscription['items']['data'][number], newPrice: Price, now: number): InvoiceLine[] {
+    const span = Math.max(1, sub.current_period_end - sub.current_period_start);
+    const unused = Math.min(1, Math.max(0, (sub.current_period_end - now) / span));
+    const after = lineDay(now);
+    return [
+      this.line(`Unused time on ${this.productName(item.price)} after ${after}`, -Math.round(item.price.unit_amount * item.quantity * unused), now, sub.current_period_end, true),
+      this.line(`Remaining time on ${this.productName(newPrice)} after ${after}`, Math.round(newPrice.unit_amount * item.quantity * unused), now, sub.current_period_end, true),
+    ];
+  }
+
+  /**
+   * The invoice a price change would produce now (the API's invoices/create_preview),
+   * changing nothing: lines, the customer's credit used first, what would be charged
+   * and the credit left after.
+   */
+  previewSubscriptionChange(id: string, input: { items: { id?: string; price?: string }[]; proration_behavior?: string }): Invoice {
+    const sub = this.subscription(id);
+    const customer = this.customer(sub.customer);
+    const change = input.items.find((i) => i.price);
+    const item = change?.id ? sub.items.data.find((i) => i.id === change.id) : sub.items.data[0];
+    if (!item) throw new FakeApiError(400, 'invalid_request_error', `No such subscription item: '${change?.id}'`, { param: 'subscription_details[items][0][id]' });
+    const now = nowSeconds();
+    const newPrice = change?.price ? this.price(change.price, 'subscription_details[items][0][price]') : item.price;
+    const lines = newPrice.id === item.price.id || input.proration_behavior === 'none' ? [] : this.prorationLines(sub, item, newPrice, now);
+    const subtotal = lines.reduce((t, l) => t + l.amount, 0);
+    const total = subtotal + customer.balance;
+    return {
+      id: `upcoming_${sub.id}`,
+      object: 'invoice',
+      number: null,
+      customer: customer.id,
+      subscription: sub.id,
+      parent: { type: 'subscription_details', subscription_details: { subscription: sub.id, metadata: sub.metadata } },
+      status: 'draft',
+      billing_reason: 'subscription_update',
+      amount_due: Math.max(0, total),
+      amount_paid: 0,
+      amount_remaining: Math.max(0, total),
+      subtotal,
+      total: subtotal,
+      starting_balance: customer.balance,
+      ending_balance: Math.min(0, total),
+      currency: CURRENCY,
+      created: now,
+      period_start: now,
+      period_end: sub.current_period_end,
+      lines: { object: 'list', data: lines, has_more: false, url: '/v1/invoices/lines' },
+      status_transitions: { finalized_at: null, paid_at: null },
+      hosted_invoice_url: null,
+      livemode: false,
+    };
   }
 
   /** End a subscription at once (the API's DELETE). */
