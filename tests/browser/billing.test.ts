@@ -83,7 +83,7 @@ describe('billing in the browser', () => {
     const invoice = page.locator('[data-invoice]');
     expect(await invoice.count()).toBe(1);
     expect(await invoice.first().textContent()).toContain('€19.00');
-    expect(await invoice.first().textContent()).toContain('paid');
+    expect(await invoice.first().textContent()).toContain('Settled');
     expect(await page.locator('[data-plan="lab"] button', { hasText: 'Switch to Lab' }).count()).toBe(1);
     await screenshot(page, 'billing-6-bench');
   });
@@ -92,10 +92,29 @@ describe('billing in the browser', () => {
     await page.goto(appUrl('/studio/billing'));
     await page.locator('[data-plan="lab"] button', { hasText: 'Switch to Lab' }).click();
     await page.getByText('The switch is immediate').waitFor();
+    // The amount comes from the payment service's preview, before anything is charged.
+    await page.getByTestId('change-amount').waitFor();
+    expect(await page.getByTestId('change-amount').textContent()).toMatch(/Charged to your card now\s*€\d+\.\d\d/);
+    expect(await page.getByTestId('change-preview').textContent()).toContain('Unused time on Partwise Bench');
     await screenshot(page, 'billing-7-confirm-switch');
     await page.locator('[data-plan="lab"]').getByRole('button', { name: 'Confirm' }).click();
     await expect.poll(() => page.getByTestId('current-plan').textContent(), { timeout: 15_000 }).toBe('Lab');
     await expect.poll(() => page.locator('[data-invoice]').count(), { timeout: 15_000 }).toBe(2);
+
+    // Each invoice has a page with its lines, ready to print.
+    await page.locator('[data-invoice]').first().getByRole('link').click();
+    await page.waitForURL((u) => /^\/studio\/billing\/invoices\/\d+$/.test(u.pathname));
+    await page.getByTestId('invoice').waitFor();
+    expect(await page.getByTestId('invoice').textContent()).toContain('Remaining time on Partwise Lab');
+    expect(await page.getByTestId('invoice').textContent()).not.toMatch(/\d{4}-\d{2}-\d{2}/);
+    expect(await page.getByRole('button', { name: 'Print or save as PDF' }).count()).toBe(1);
+    await screenshot(page, 'billing-7b-invoice');
+    await page.emulateMedia({ media: 'print' });
+    expect(await page.locator('header').first().isVisible()).toBe(false);
+    await screenshot(page, 'billing-7c-invoice-print');
+    await page.emulateMedia({ media: 'screen' });
+    await page.getByRole('link', { name: 'Back to billing' }).click();
+    await page.waitForURL((u) => u.pathname === '/studio/billing');
 
     await page.locator('[data-plan="sketch"] button', { hasText: 'Cancel — move to Sketch' }).click();
     await page.locator('[data-plan="sketch"]').getByRole('button', { name: 'Confirm' }).click();

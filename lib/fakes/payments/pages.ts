@@ -7,33 +7,39 @@ import type { CheckoutSession, Invoice, PaymentMethod, PortalSession, Price, Sub
  */
 const esc = (s: string) => s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
 
-export const euros = (cents: number) => `€${(cents / 100).toFixed(2)}`;
+export const euros = (cents: number) => `${cents < 0 ? '−' : ''}€${(Math.abs(cents) / 100).toFixed(2)}`;
+const day = (seconds: number) => new Date(seconds * 1000).toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric', timeZone: 'UTC' });
 
+// Tally's own look: one narrow column, a perforated "ticket" for what is being paid,
+// warm paper tones and a green action; nothing borrowed from a real hosted checkout.
 const STYLE = `
   *{box-sizing:border-box}
-  body{margin:0;font:15px/1.45 system-ui,-apple-system,"Segoe UI",sans-serif;background:#eef1f4;color:#1c2430}
-  .bar{background:#1f3a5f;color:#fff;padding:10px 20px;font-size:13px;letter-spacing:.02em;display:flex;justify-content:space-between}
-  .bar b{font-weight:650}
-  main{max-width:880px;margin:32px auto;padding:0 16px;display:grid;grid-template-columns:1fr 1.1fr;gap:24px}
-  @media (max-width:720px){main{grid-template-columns:1fr}}
-  .panel{background:#fff;border:1px solid #d6dde5;border-radius:10px;padding:24px}
-  h1{font-size:20px;margin:0 0 4px} h2{font-size:15px;margin:0 0 12px;color:#4a5a6c;font-weight:600}
-  .amount{font-size:30px;font-weight:700;margin:12px 0 2px} .muted{color:#5d6b7a;font-size:13px}
-  label{display:block;font-size:13px;font-weight:600;margin:14px 0 4px}
-  input{width:100%;padding:10px 12px;border:1px solid #b9c4cf;border-radius:6px;font:inherit;font-variant-numeric:tabular-nums}
-  input:focus{outline:2px solid #3b74c4;border-color:#3b74c4}
-  .row{display:grid;grid-template-columns:1fr 1fr;gap:12px}
-  button{margin-top:20px;width:100%;padding:12px;border:0;border-radius:6px;background:#1f3a5f;color:#fff;font:inherit;font-weight:650;cursor:pointer}
-  button:hover{background:#284b7a}
-  .error{background:#fdecea;border:1px solid #e2a39b;color:#8a2318;padding:10px 12px;border-radius:6px;margin-top:14px}
-  .hint{background:#f4f7fa;border:1px dashed #aab7c4;border-radius:6px;padding:10px 12px;margin-top:18px;font-size:13px}
-  .hint code{font-size:13px}
-  table{width:100%;border-collapse:collapse;margin-top:12px} td{padding:6px 0;border-bottom:1px solid #e6ebf0} td.n{text-align:right;font-variant-numeric:tabular-nums}
-  a{color:#1f5fae}
+  body{margin:0;font:16px/1.5 Georgia,"Iowan Old Style",serif;background:#f3efe6;color:#26231d}
+  .strip{background:#2e4a3a;color:#f3efe6;padding:8px 18px;font:13px/1.4 system-ui,sans-serif;text-align:center}
+  .mark{display:flex;align-items:center;gap:10px;justify-content:center;margin:28px 0 8px;font:700 15px/1 system-ui,sans-serif;letter-spacing:.08em;text-transform:uppercase;color:#2e4a3a}
+  .mark i{display:inline-block;width:18px;height:18px;border-radius:50%;border:3px solid #2e4a3a;border-right-color:transparent}
+  main{max-width:520px;margin:0 auto 48px;padding:0 16px}
+  .ticket{background:#fffdf8;border:2px dashed #b9ae98;border-radius:4px;padding:18px 20px;margin:16px 0}
+  .ticket h1{font-size:22px;margin:0 0 2px;font-weight:600} .ticket .for{font:13px system-ui,sans-serif;color:#6e6657;margin:0}
+  .sum{display:flex;justify-content:space-between;gap:12px;padding:6px 0;border-bottom:1px dotted #cfc6b3;font-variant-numeric:tabular-nums}
+  .sum:last-child{border-bottom:0} .sum.total{font-weight:700;font-size:18px;padding-top:10px}
+  .step{font:700 12px/1 system-ui,sans-serif;letter-spacing:.1em;text-transform:uppercase;color:#8b7f67;margin:26px 0 6px}
+  .sheet{background:#fffdf8;border-radius:4px;box-shadow:0 1px 0 #d8cfbd,0 0 0 1px #e5dccb;padding:18px 20px}
+  label{display:block;font:600 13px system-ui,sans-serif;margin:12px 0 4px}
+  input{width:100%;padding:10px 12px;border:1px solid #b9ae98;border-radius:3px;background:#fff;font:16px system-ui,sans-serif;font-variant-numeric:tabular-nums}
+  input:focus{outline:3px solid #8fbf9f;border-color:#2e4a3a}
+  .pair{display:grid;grid-template-columns:1fr 1fr;gap:12px}
+  button{margin-top:18px;width:100%;padding:13px;border:0;border-radius:999px;background:#3f7a55;color:#fff;font:700 16px system-ui,sans-serif;cursor:pointer}
+  button:hover{background:#346748} button.plain{background:transparent;color:#8a3b22;border:1px solid #c99a86}
+  .problem{background:#f7e3da;border-left:4px solid #a2442a;color:#6d2513;padding:10px 12px;margin-top:14px;font:14px system-ui,sans-serif}
+  .note{font:13px system-ui,sans-serif;color:#6e6657;margin-top:14px} .note code{font-size:13px;background:#efe8da;padding:1px 4px}
+  .ok{background:#e4f0e6;border-left:4px solid #3f7a55;padding:10px 12px;margin-top:14px;font:14px system-ui,sans-serif}
+  a{color:#2e6a48}
+  .back{display:block;text-align:center;margin-top:22px;font:14px system-ui,sans-serif}
 `;
 
 function page(title: string, body: string): string {
-  return `<!doctype html><html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width,initial-scale=1"><title>${esc(title)}</title><style>${STYLE}</style></head><body><div class="bar"><span><b>Tally Test Payments</b> · a local stand-in for the payment service</span><span>test mode — no real money moves</span></div>${body}</body></html>`;
+  return `<!doctype html><html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width,initial-scale=1"><title>${esc(title)}</title><style>${STYLE}</style></head><body><div class="strip">Tally Test Payments runs only on this machine: test mode, no real money moves.</div><div class="mark"><i></i>Tally</div>${body}</body></html>`;
 }
 
 export interface CheckoutView {
@@ -50,48 +56,46 @@ export function checkoutPage(v: CheckoutView): string {
   const field = (name: string, label: string, attrs: string) =>
     `<label for="${name}">${label}</label><input id="${name}" name="${name}" ${attrs} value="${esc(v.values?.[name as keyof NonNullable<CheckoutView['values']>] ?? '')}"${v.error?.field === name ? ' aria-invalid="true"' : ''}>`;
   const body = `<main>
-  <section class="panel" aria-label="Order">
-    <h2>${esc(v.merchant)}</h2>
+  <section class="ticket" aria-label="What you pay for">
     <h1>Subscribe to ${esc(item?.productName ?? 'a plan')}</h1>
-    <div class="amount">${euros(session.amount_total)}</div>
-    <div class="muted">per month, renews monthly until cancelled</div>
-    <table>${v.items.map((i) => `<tr><td>${esc(i.productName)} × ${i.quantity}</td><td class="n">${euros(i.price.unit_amount * i.quantity)}</td></tr>`).join('')}
-    <tr><td><b>Due today</b></td><td class="n"><b>${euros(session.amount_total)}</b></td></tr></table>
-    ${session.cancel_url ? `<p class="muted" style="margin-top:18px"><a href="${esc(session.cancel_url)}">← Back without paying</a></p>` : ''}
+    <p class="for">for ${esc(v.merchant)} · charged every month until you stop it</p>
+    ${v.items.map((i) => `<div class="sum"><span>${esc(i.productName)}${i.quantity > 1 ? ` × ${i.quantity}` : ''}</span><span>${euros(i.price.unit_amount * i.quantity)}</span></div>`).join('')}
+    <div class="sum total"><span>Today</span><span>${euros(session.amount_total)}</span></div>
   </section>
-  <section class="panel" aria-label="Card">
-    <h2>Pay by card</h2>
+  <p class="step">Your card</p>
+  <section class="sheet" aria-label="Card">
     <form method="post" action="/pay/${esc(session.id)}" novalidate>
-      ${field('number', 'Card number', 'inputmode="numeric" autocomplete="cc-number" placeholder="1234 1234 1234 1234" required')}
-      <div class="row"><div>${field('expiry', 'Expiry (MM / YY)', 'autocomplete="cc-exp" placeholder="MM / YY" required')}</div><div>${field('cvc', 'Security code', 'inputmode="numeric" autocomplete="cc-csc" placeholder="123" required')}</div></div>
+      ${field('number', 'Card number', 'inputmode="numeric" autocomplete="cc-number" placeholder="0000 0000 0000 0000" required')}
+      <div class="pair"><div>${field('expiry', 'Expiry (MM / YY)', 'autocomplete="cc-exp" placeholder="MM / YY" required')}</div><div>${field('cvc', 'Security code', 'inputmode="numeric" autocomplete="cc-csc" placeholder="3 digits" required')}</div></div>
       ${field('name', 'Name on card', 'autocomplete="cc-name"')}
-      ${v.error ? `<div class="error" role="alert">${esc(v.error.message)}</div>` : ''}
-      <button type="submit">Pay ${euros(session.amount_total)} and subscribe</button>
+      ${v.error ? `<div class="problem" role="alert">${esc(v.error.message)}</div>` : ''}
+      <button type="submit">Pay ${euros(session.amount_total)} now, then monthly</button>
     </form>
-    <div class="hint">Test cards: <code>4242 4242 4242 4242</code> is accepted, <code>4000 0000 0000 0002</code> is declined. Any future expiry and any 3 digits.</div>
+    <p class="note">Cards for trying it out: <code>4242 4242 4242 4242</code> goes through, <code>4000 0000 0000 0002</code> is refused. Any expiry in the future, any three digits.</p>
   </section>
+  ${session.cancel_url ? `<a class="back" href="${esc(session.cancel_url)}">Leave without paying</a>` : ''}
 </main>`;
   return page(`Pay ${v.merchant}`, body);
 }
 
 export function closedCheckoutPage(session: CheckoutSession): string {
-  const text = session.status === 'complete' ? 'This checkout has been paid already.' : 'This checkout has expired. Start again from the site you came from.';
-  return page('Checkout closed', `<main style="grid-template-columns:1fr"><section class="panel"><h1>${text}</h1>${session.status === 'complete' ? `<p><a href="${esc(session.success_url.replace('{CHECKOUT_SESSION_ID}', session.id))}">Return to the site</a></p>` : ''}</section></main>`);
+  const text = session.status === 'complete' ? 'This payment went through already.' : 'This payment page has expired. Start again from the site you came from.';
+  return page('Payment closed', `<main><section class="ticket"><h1>${text}</h1>${session.status === 'complete' ? `<p><a href="${esc(session.success_url.replace('{CHECKOUT_SESSION_ID}', session.id))}">Back to the site</a></p>` : ''}</section></main>`);
 }
 
 export function invoicePage(invoice: Invoice, merchant: string): string {
-  const rows = invoice.lines.data.map((l) => `<tr><td>${esc(l.description)}</td><td class="n">${euros(l.amount)}</td></tr>`).join('');
-  const body = `<main style="grid-template-columns:1fr"><section class="panel">
-  <h2>${esc(merchant)}</h2><h1>Invoice ${esc(invoice.number ?? "preview")}</h1>
-  <p class="muted">Status: ${esc(invoice.status)} · issued ${new Date(invoice.created * 1000).toISOString().slice(0, 10)}</p>
-  <table>${rows}
-  ${invoice.starting_balance ? `<tr><td>Credit applied</td><td class="n">${euros(Math.max(invoice.starting_balance, -invoice.subtotal))}</td></tr>` : ''}
-  <tr><td><b>Paid</b></td><td class="n"><b>${euros(invoice.amount_paid)}</b></td></tr></table></section></main>`;
-  return page(`Invoice ${invoice.number}`, body);
+  const rows = invoice.lines.data.map((l) => `<div class="sum"><span>${esc(l.description)}</span><span>${euros(l.amount)}</span></div>`).join('');
+  const credit = invoice.starting_balance ? `<div class="sum"><span>Credit used</span><span>${euros(Math.max(invoice.starting_balance, -invoice.subtotal))}</span></div>` : '';
+  const body = `<main><section class="ticket">
+  <h1>Invoice ${esc(invoice.number ?? 'preview')}</h1>
+  <p class="for">${esc(merchant)} · ${esc(invoice.status)} · issued ${day(invoice.created)}</p>
+  ${rows}${credit}
+  <div class="sum total"><span>Charged</span><span>${euros(invoice.amount_paid)}</span></div></section></main>`;
+  return page(`Invoice ${invoice.number ?? 'preview'}`, body);
 }
 
 export function notFoundPage(what: string): string {
-  return page('Not found', `<main style="grid-template-columns:1fr"><section class="panel"><h1>No such ${esc(what)}.</h1></section></main>`);
+  return page('Not found', `<main><section class="ticket"><h1>There is no such ${esc(what)} here.</h1></section></main>`);
 }
 
 export interface PortalViewInput {
@@ -103,32 +107,31 @@ export interface PortalViewInput {
 }
 
 export function portalView(v: PortalViewInput): string {
-  const date = (s: number) => new Date(s * 1000).toISOString().slice(0, 10);
   const subs = v.subscriptions
     .map(({ sub, productName }) => {
       const price = sub.items.data[0]?.price;
-      const action = sub.cancel_at_period_end ? 'resume' : 'cancel';
-      return `<tr><td><b>${esc(productName)}</b><br><span class="muted">${price ? euros(price.unit_amount) : ''} a month · ${sub.cancel_at_period_end ? `ends ${date(sub.current_period_end)}` : `renews ${date(sub.current_period_end)}`}</span></td>
-      <td class="n"><form method="post" action="/portal/${esc(v.session.id)}/${action}"><input type="hidden" name="subscription" value="${esc(sub.id)}"><button type="submit" style="margin:0;width:auto;white-space:nowrap;padding:8px 14px;${action === 'cancel' ? 'background:#fff;color:#8a2318;border:1px solid #e2a39b' : ''}">${action === 'cancel' ? 'End at period end' : 'Keep subscription'}</button></form></td></tr>`;
+      const stopping = sub.cancel_at_period_end;
+      return `<div class="sum"><span><b>${esc(productName)}</b><br><span class="for">${price ? `${euros(price.unit_amount)} a month · ` : ''}${stopping ? `stops on ${day(sub.current_period_end)}` : `next charge on ${day(sub.current_period_end)}`}</span></span></div>
+      <form method="post" action="/portal/${esc(v.session.id)}/${stopping ? 'resume' : 'cancel'}"><input type="hidden" name="subscription" value="${esc(sub.id)}"><button type="submit"${stopping ? '' : ' class="plain"'}>${stopping ? 'Keep it running' : `Stop after ${day(sub.current_period_end)}`}</button></form>`;
     })
     .join('');
   const body = `<main>
-  <section class="panel" aria-label="Subscriptions">
-    <h2>${esc(v.merchant)}</h2><h1>Your subscription</h1>
-    ${v.notice ? `<div class="${v.notice.kind === 'error' ? 'error' : 'hint'}" role="${v.notice.kind === 'error' ? 'alert' : 'status'}">${esc(v.notice.text)}</div>` : ''}
-    <table>${subs || '<tr><td class="muted">No active subscription.</td></tr>'}</table>
-    ${v.session.return_url ? `<p style="margin-top:18px"><a href="${esc(v.session.return_url)}">← Return to ${esc(v.merchant)}</a></p>` : ''}
+  <section class="ticket" aria-label="Subscriptions">
+    <h1>Your plan with ${esc(v.merchant)}</h1>
+    ${v.notice ? `<div class="${v.notice.kind === 'error' ? 'problem' : 'ok'}" role="${v.notice.kind === 'error' ? 'alert' : 'status'}">${esc(v.notice.text)}</div>` : ''}
+    ${subs || '<p class="for">Nothing is running.</p>'}
   </section>
-  <section class="panel" aria-label="Card">
-    <h2>Card on file</h2>
-    <p>${v.card ? `Visa ending in <b>${esc(v.card.card.last4)}</b>, expires ${String(v.card.card.exp_month).padStart(2, '0')}/${v.card.card.exp_year}` : 'No card on file.'}</p>
+  <p class="step">Card we charge</p>
+  <section class="sheet" aria-label="Card">
+    <p>${v.card ? `Visa ending in <b>${esc(v.card.card.last4)}</b>, valid until ${String(v.card.card.exp_month).padStart(2, '0')}/${v.card.card.exp_year}` : 'No card on file.'}</p>
     <form method="post" action="/portal/${esc(v.session.id)}/card" novalidate>
-      <label for="number">New card number</label><input id="number" name="number" inputmode="numeric" autocomplete="cc-number" placeholder="1234 1234 1234 1234">
-      <div class="row"><div><label for="expiry">Expiry (MM / YY)</label><input id="expiry" name="expiry" placeholder="MM / YY"></div><div><label for="cvc">Security code</label><input id="cvc" name="cvc" inputmode="numeric" placeholder="123"></div></div>
-      <button type="submit">Save this card</button>
+      <label for="number">New card number</label><input id="number" name="number" inputmode="numeric" autocomplete="cc-number" placeholder="0000 0000 0000 0000">
+      <div class="pair"><div><label for="expiry">Expiry (MM / YY)</label><input id="expiry" name="expiry" placeholder="MM / YY"></div><div><label for="cvc">Security code</label><input id="cvc" name="cvc" inputmode="numeric" placeholder="3 digits"></div></div>
+      <button type="submit">Use this card from now on</button>
     </form>
-    <div class="hint">Test cards: <code>4242 4242 4242 4242</code> is accepted, <code>4000 0000 0000 0002</code> is declined.</div>
+    <p class="note">Cards for trying it out: <code>4242 4242 4242 4242</code> goes through, <code>4000 0000 0000 0002</code> is refused.</p>
   </section>
+  ${v.session.return_url ? `<a class="back" href="${esc(v.session.return_url)}">Return to ${esc(v.merchant)}</a>` : ''}
 </main>`;
-  return page(`${v.merchant} — your subscription`, body);
+  return page(`${v.merchant}: your plan`, body);
 }
