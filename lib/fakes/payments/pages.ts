@@ -123,7 +123,7 @@ export function portalView(v: PortalViewInput): string {
   </section>
   <p class="step">Card we charge</p>
   <section class="sheet" aria-label="Card">
-    <p>${v.card ? `Visa ending in <b>${esc(v.card.card.last4)}</b>, valid until ${String(v.card.card.exp_month).padStart(2, '0')}/${v.card.card.exp_year}` : 'No card on file.'}</p>
+    <p>${v.card ? `Visa ending in <b>${esc(v.card.card.last4)}</b>, expires ${String(v.card.card.exp_month).padStart(2, '0')}/${v.card.card.exp_year}` : 'No card on file.'}</p>
     <form method="post" action="/portal/${esc(v.session.id)}/card" novalidate>
       <label for="number">New card number</label><input id="number" name="number" inputmode="numeric" autocomplete="cc-number" placeholder="0000 0000 0000 0000">
       <div class="pair"><div><label for="expiry">Expiry (MM / YY)</label><input id="expiry" name="expiry" placeholder="MM / YY"></div><div><label for="cvc">Security code</label><input id="cvc" name="cvc" inputmode="numeric" placeholder="3 digits"></div></div>
