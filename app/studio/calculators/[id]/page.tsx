@@ -1,3 +1,4 @@
+import { SUPPORT_ADDRESS } from '@/lib/mail';
 import type { Metadata } from 'next';
 import { headers } from 'next/headers';
 import { notFound } from 'next/navigation';
@@ -50,6 +51,15 @@ export default async function CalculatorPage({ params }: { params: Promise<{ id:
           <StatusPill status={embed.status === 'active' && served?.problem ? 'damaged' : embed.status} />
           <span>{answersThisMonth.toLocaleString('en')} answers this month</span>
           {embed.status === 'disabled' && embed.disabledReason && <span>Support&rsquo;s reason: {embed.disabledReason}</span>}
+          {embed.status === 'disabled' && (
+            <span>
+              Questions or a fix to show? Write to{' '}
+              <a className="font-bold underline" href={`mailto:${SUPPORT_ADDRESS}?subject=${encodeURIComponent(`Calculator “${embed.title}”`)}`}>
+                {SUPPORT_ADDRESS}
+              </a>
+              ; a person reads every message.
+            </span>
+          )}
         </span>
       }
     >
