@@ -155,7 +155,7 @@ function PreviewFigures({ preview }: { preview: { data?: PlanChangePreview; erro
           {d.lines.map((l, i) => (
             <li key={i} className="flex justify-between gap-3">
               <span>{l.description}</span>
-              <span className="tabular-nums">{money(l.amount)}</span>
+              <span className="whitespace-nowrap tabular-nums">{money(l.amount)}</span>
             </li>
           ))}
         </ul>
@@ -163,17 +163,17 @@ function PreviewFigures({ preview }: { preview: { data?: PlanChangePreview; erro
       {d.creditUsed > 0 && (
         <p className="flex justify-between gap-3 text-ink-soft">
           <span>Credit on account used</span>
-          <span className="tabular-nums">{money(-d.creditUsed)}</span>
+          <span className="whitespace-nowrap tabular-nums">{money(-d.creditUsed)}</span>
         </p>
       )}
       <p className="flex justify-between gap-3 font-bold" data-testid="change-amount">
         <span>{d.kind === 'checkout' ? 'To pay on the payment page' : 'Charged to your card now'}</span>
-        <span className="tabular-nums">{money(d.amountDue)}</span>
+        <span className="whitespace-nowrap tabular-nums">{money(d.amountDue)}</span>
       </p>
       {d.creditAfter > 0 && (
         <p className="flex justify-between gap-3 font-bold text-moss-700" data-testid="change-credit">
           <span>Credit kept for your next invoices</span>
-          <span className="tabular-nums">{money(d.creditAfter)}</span>
+          <span className="whitespace-nowrap tabular-nums">{money(d.creditAfter)}</span>
         </p>
       )}
     </div>
