@@ -2,6 +2,10 @@ import Link from 'next/link';
 import { SiteHeader } from '@/components/brand/SiteHeader';
 import { PricingTable } from '@/components/landing/PricingTable';
 import { MembershipSketch } from '@/components/landing/MembershipSketch';
+import { demoExampleAnswer } from '@/lib/demo/landing-example';
+
+// The example answer is worked out from the served demo calculator on each visit, never at build time.
+export const dynamic = 'force-dynamic';
 
 const steps = [
   { title: 'Bring a table', body: 'Upload a CSV of measurements. Partwise types every column, shows its range and spread, and names any row it cannot read.' },
@@ -10,7 +14,8 @@ const steps = [
   { title: 'Publish a calculator', body: 'Paste one snippet into your site. Visitors enter their own values and see how much they resemble each group, with a notice when they resemble none.' },
 ];
 
-export default function LandingPage() {
+export default async function LandingPage() {
+  const example = await demoExampleAnswer();
   return (
     <>
       <SiteHeader />
@@ -30,7 +35,7 @@ export default function LandingPage() {
               <Link href="/#how" className="pw-button-quiet">See how it works</Link>
             </div>
           </div>
-          <MembershipSketch />
+          <MembershipSketch example={example} />
         </section>
 
         <section id="how" className="bg-white/60 py-20">

@@ -8,8 +8,13 @@
  * tall as its content, from size messages the calculator posts to this page's exact
  * origin. Messages are accepted only from the app's origin, from that iframe's window,
  * and in the exact expected shape. No cookies, no globals beyond one marker.
+ *
+ * A frame that says nothing within a few seconds of loading was refused by the browser
+ * (this site is not on the calculator's allowed list, or the address is unknown): it is
+ * hidden and a short neutral notice takes its place, instead of a broken-frame icon. A
+ * sign of life arriving later (a slow device) brings the calculator back.
  */
-import { isSizeMessage, MAX_FRAME_HEIGHT, MESSAGE_SOURCE, TOKEN_PATTERN, type HelloMessage } from './protocol';
+import { isReadyMessage, isSizeMessage, MAX_FRAME_HEIGHT, MESSAGE_SOURCE, READY_TIMEOUT_MS, TOKEN_PATTERN, type HelloMessage } from './protocol';
 
 const ATTR = 'data-partwise-calculator';
 const DONE = 'data-partwise-ready';
@@ -28,6 +33,34 @@ function scriptOrigin(): string | null {
 interface Placed {
   frame: HTMLIFrameElement;
   token: string;
+  alive: boolean;
+  notice: HTMLElement | null;
+}
+
+const NOTICE_ATTR = 'data-partwise-notice';
+
+/** The host page's stand-in for a refused frame: plain text in the page's own font, nothing about the allowed sites. */
+function refusedNotice(): HTMLElement {
+  const box = document.createElement('div');
+  box.setAttribute(NOTICE_ATTR, '');
+  box.setAttribute('role', 'status');
+  box.style.cssText = 'box-sizing:border-box;max-width:100%;margin:0;padding:12px 16px;border:1px solid rgba(128,128,128,.45);border-radius:8px;font:inherit;font-size:15px;line-height:1.45;color:inherit;background:transparent';
+  const title = document.createElement('p');
+  title.style.cssText = 'margin:0;font-weight:bold';
+  title.textContent = 'This calculator cannot be shown on this page.';
+  const hint = document.createElement('p');
+  hint.style.cssText = 'margin:4px 0 0;font-size:13px;opacity:.8';
+  hint.textContent = 'If this is your website, check the calculator\u2019s address and its allowed websites in Partwise.';
+  box.append(title, hint);
+  return box;
+}
+
+function markAlive(p: Placed) {
+  p.alive = true;
+  if (!p.notice) return;
+  p.notice.remove();
+  p.notice = null;
+  p.frame.style.display = 'block';
 }
 
 function start(appOrigin: string) {
@@ -50,21 +83,33 @@ function start(appOrigin: string) {
       frame.loading = 'lazy';
       frame.setAttribute('referrerpolicy', 'strict-origin-when-cross-origin');
       frame.style.cssText = 'display:block;width:100%;max-width:100%;border:0;height:560px;overflow:hidden;color-scheme:normal';
+      const entry: Placed = { frame, token, alive: false, notice: null };
+      let timer: ReturnType<typeof setTimeout> | undefined;
       frame.addEventListener('load', () => {
         const hello: HelloMessage = { source: MESSAGE_SOURCE, type: 'hello' };
         frame.contentWindow?.postMessage(hello, appOrigin);
+        // The browser fires load for a refused frame too (its error page), so load starts the wait.
+        clearTimeout(timer);
+        timer = setTimeout(() => {
+          if (entry.alive || entry.notice || !frame.isConnected) return;
+          entry.notice = refusedNotice();
+          frame.style.display = 'none';
+          frame.after(entry.notice);
+        }, READY_TIMEOUT_MS);
       });
       el.replaceChildren(frame);
-      placed.push({ frame, token });
+      placed.push(entry);
     });
   };
 
   window.addEventListener('message', (event: MessageEvent) => {
-    if (event.origin !== appOrigin || !isSizeMessage(event.data)) return;
+    if (event.origin !== appOrigin) return;
     const data = event.data;
+    if (!isSizeMessage(data) && !isReadyMessage(data)) return;
     const target = placed.find((p) => p.frame.contentWindow === event.source && p.token === data.token);
     if (!target) return;
-    target.frame.style.height = `${Math.min(Math.ceil(data.height), MAX_FRAME_HEIGHT)}px`;
+    markAlive(target);
+    if (data.type === 'size') target.frame.style.height = `${Math.min(Math.ceil(data.height), MAX_FRAME_HEIGHT)}px`;
   });
 
   mount();

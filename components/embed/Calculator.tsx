@@ -1,7 +1,8 @@
 'use client';
-import { useEffect, useId, useRef, useState, type FormEvent } from 'react';
+import { useEffect, useId, useMemo, useRef, useState, type FormEvent } from 'react';
 import type { CalculatorProps } from '@/lib/embeds/calculator-page';
 import { MembershipChart, preloadChart, type MembershipRow } from './MembershipChart';
+import { formatPercent } from './percent';
 import { ReportForm } from './ReportForm';
 import { useHostSize } from './useHostSize';
 
@@ -13,7 +14,14 @@ interface Answer {
   threshold: number;
 }
 
-type Notice = { tone: 'calm' | 'problem'; text: string } | null;
+/** A message above the answer; `untilEdit` ones are about the values on screen and go when a value changes. */
+type Notice = { tone: 'calm' | 'problem'; text: string; untilEdit?: boolean } | null;
+
+/** An answer and the exact numbers it was worked out for. */
+interface Shown {
+  data: Answer;
+  key: string;
+}
 
 type Field = CalculatorProps['fields'][number];
 
@@ -36,7 +44,20 @@ function checkField(f: Field, text: string): string | null {
   return null;
 }
 
-const pct = (p: number) => (p >= 0.995 ? 'over 99 %' : p < 0.005 ? 'under 1 %' : `${Math.round(p * 100)} %`);
+/**
+ * The numbers the typed values stand for, or null while any is missing or invalid.
+ * "24,5" and "24.5" have the same key: equal keys would get the same answer.
+ */
+function valuesKey(fields: Field[], values: Record<string, string>): string | null {
+  const numbers: number[] = [];
+  for (const f of fields) {
+    const text = values[f.feature] ?? '';
+    const v = checkField(f, text) ? null : readNumber(text);
+    if (v === null) return null;
+    numbers.push(v);
+  }
+  return JSON.stringify(numbers);
+}
 
 export function Calculator(props: CalculatorProps) {
   const { token, title, fields, caution, chartSpec, hostOrigin } = props;
@@ -45,9 +66,14 @@ export function Calculator(props: CalculatorProps) {
   const [values, setValues] = useState<Record<string, string>>(() => Object.fromEntries(fields.map((f) => [f.feature, ''])));
   const [errors, setErrors] = useState<Record<string, string>>({});
   const [busy, setBusy] = useState(false);
-  const [answer, setAnswer] = useState<Answer | null>(null);
+  const [shown, setShown] = useState<Shown | null>(null);
   const [notice, setNotice] = useState<Notice>(null);
   const inputs = useRef<Record<string, HTMLInputElement | null>>({});
+  // Guards against a second submit before React has re-rendered the disabled button.
+  const inFlight = useRef(false);
+  const answer = shown?.data ?? null;
+  // The answer on screen no longer matches what the form says (edited, emptied or invalid).
+  const stale = shown !== null && valuesKey(fields, values) !== shown.key;
 
   // Hydrated: the form now answers (until then the button is disabled, so an early click
   // cannot submit the values natively into the address). The mark is what the benchmark reads.
@@ -65,6 +91,7 @@ export function Calculator(props: CalculatorProps) {
 
   async function submit(event: FormEvent) {
     event.preventDefault();
+    if (inFlight.current) return;
     const errs: Record<string, string> = {};
     for (const f of fields) {
       const e = checkField(f, values[f.feature] ?? '');
@@ -75,6 +102,13 @@ export function Calculator(props: CalculatorProps) {
       focusFirst(errs);
       return;
     }
+    const key = valuesKey(fields, values)!;
+    if (shown && shown.key === key) {
+      // The same numbers would get the same answer: nothing is sent or counted.
+      setNotice({ tone: 'calm', text: 'The answer below is already for these values. Change a value to see a new one.', untilEdit: true });
+      return;
+    }
+    inFlight.current = true;
     setBusy(true);
     setNotice(null);
     preloadChart();
@@ -83,10 +117,10 @@ export function Calculator(props: CalculatorProps) {
       const res = await fetch(`/api/score/${encodeURIComponent(token)}`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) });
       const data = await res.json().catch(() => null);
       if (res.ok) {
-        setAnswer(data as Answer);
+        setShown({ data: data as Answer, key });
         return;
       }
-      setAnswer(null);
+      setShown(null);
       const message: string = data?.error?.message ?? '';
       if (res.status === 422 && Array.isArray(data?.error?.issues)) {
         const fromServer: Record<string, string> = {};
@@ -108,13 +142,16 @@ export function Calculator(props: CalculatorProps) {
         setNotice({ tone: 'problem', text: 'Something went wrong on our side. Please try again.' });
       }
     } catch {
+      setShown(null);
       setNotice({ tone: 'problem', text: 'The answer could not be fetched. Check the connection and try again.' });
     } finally {
+      inFlight.current = false;
       setBusy(false);
     }
   }
 
-  const rows: MembershipRow[] = answer ? answer.probabilities.map((p) => ({ label: p.label, probability: p.probability, color: p.color })) : [];
+  // Kept while the visitor types, so the chart is drawn once per answer, not per keystroke.
+  const rows: MembershipRow[] = useMemo(() => (answer ? answer.probabilities.map((p) => ({ label: p.label, probability: p.probability, color: p.color })) : []), [answer]);
 
   return (
     <div className="space-y-5">
@@ -153,6 +190,7 @@ export function Calculator(props: CalculatorProps) {
                 onChange={(e) => {
                   const text = e.target.value;
                   setValues((v) => ({ ...v, [f.feature]: text }));
+                  setNotice((n) => (n?.untilEdit ? null : n));
                   if (errors[f.feature]) setErrors((errs) => ({ ...errs, [f.feature]: checkField(f, text) ?? '' }));
                 }}
                 onBlur={(e) => {
@@ -184,18 +222,33 @@ export function Calculator(props: CalculatorProps) {
           </p>
         )}
         {answer && (
-          <div className="space-y-3 rounded-xl border border-ink/10 p-4 dark:border-white/15" data-testid="answer">
-            <h2 className="font-sans text-base font-bold text-ink dark:text-[#f3efe7]">
-              Most like: <span>{answer.best.label}</span>
-              <span className="font-normal"> ({pct(answer.best.probability)})</span>
-            </h2>
-            {answer.best.description && <p className="text-sm text-ink-soft dark:text-[#c9ced8]">{answer.best.description}</p>}
-            {answer.unusual && (
-              <p role="status" className="rounded-lg border border-saffron-500/60 bg-saffron-100 px-3 py-2 text-sm text-ink" data-testid="unusual-notice">
-                These values are unlike the data this calculator was built from, so the groups above may not describe them well.
+          <div className="space-y-3 rounded-xl border border-ink/10 p-4 dark:border-white/15" data-testid="answer" data-stale={stale ? 'true' : undefined}>
+            {stale && (
+              <p className="rounded-lg bg-paper-deep px-3 py-2 text-sm text-ink dark:bg-[#262c3d] dark:text-[#e8e4dc]" data-testid="stale-notice">
+                You changed your values. The answer below is for the earlier ones; press &ldquo;Show my groups&rdquo; to update it.
               </p>
             )}
-            <MembershipChart spec={chartSpec} rows={rows} />
+            <div className={`space-y-3 transition-opacity ${stale ? 'opacity-40' : ''}`}>
+              {answer.unusual ? (
+                // Values far from all the data: the message leads, the nearest group is only mentioned.
+                <div className="space-y-1 rounded-lg border border-saffron-500/60 bg-saffron-100 px-3 py-2 text-ink" data-testid="unusual-notice">
+                  <h2 className="font-sans text-base font-bold">These values are unusual for this calculator</h2>
+                  <p className="text-sm">
+                    They are unlike the data it was built from, so none of the groups describes them well. The nearest is {answer.best.label}; read the
+                    percentages below with that in mind.
+                  </p>
+                </div>
+              ) : (
+                <>
+                  <h2 className="font-sans text-base font-bold text-ink dark:text-[#f3efe7]">
+                    Most like: <span>{answer.best.label}</span>
+                    <span className="font-normal"> ({formatPercent(answer.best.probability)})</span>
+                  </h2>
+                  {answer.best.description && <p className="text-sm text-ink-soft dark:text-[#c9ced8]">{answer.best.description}</p>}
+                </>
+              )}
+              <MembershipChart spec={chartSpec} rows={rows} />
+            </div>
           </div>
         )}
       </section>

@@ -1,5 +1,6 @@
 'use client';
 import { useEffect, useRef, useState } from 'react';
+import { formatPercent } from './percent';
 
 export interface MembershipRow {
   label: string;
@@ -14,8 +15,6 @@ export function preloadChart() {
   vegaModule ??= Promise.all([import('vega'), import('vega-interpreter')]).then(([vega, { expressionInterpreter }]) => ({ vega, interpreter: expressionInterpreter }));
   return vegaModule;
 }
-
-const percent = (p: number) => (p >= 0.995 ? '> 99 %' : p < 0.005 ? '< 1 %' : `${Math.round(p * 100)} %`);
 
 /**
  * The horizontal bar chart of membership probabilities, drawn by vega from the spec the
@@ -35,7 +34,8 @@ export function MembershipChart({ spec, rows }: { spec: object; rows: Membership
         // Parsed to an AST and run by the interpreter: no eval, so the page's CSP can forbid it.
         const runtime = vega.parse(spec as import('vega').Spec, undefined, { ast: true });
         view = new vega.View(runtime, { renderer: 'svg', container: container.current, hover: false, expr: interpreter });
-        view.data('memberships', rows.map((r) => ({ label: r.label, probability: r.probability })));
+        // The bar labels are our own text, so they read exactly like the headline and the list.
+        view.data('memberships', rows.map((r) => ({ label: r.label, probability: r.probability, text: formatPercent(r.probability) })));
         await view.runAsync();
         container.current?.setAttribute('data-chart-ready', 'true');
       })
@@ -55,7 +55,7 @@ export function MembershipChart({ spec, rows }: { spec: object; rows: Membership
           <li key={r.label} className="flex items-center gap-2">
             <span aria-hidden="true" className="inline-block h-3 w-3 shrink-0 rounded-sm" style={{ backgroundColor: r.color }} />
             <span className="min-w-0 flex-1 break-words">{r.label}</span>
-            <span className="font-bold tabular-nums">{percent(r.probability)}</span>
+            <span className="font-bold tabular-nums">{formatPercent(r.probability)}</span>
           </li>
         ))}
       </ul>

@@ -1,6 +1,5 @@
 import { computeFit } from '@/lib/fitting/compute';
 import { clusterColor } from '@/lib/fitting/palette';
-import { DEFAULT_CAUTION } from '@/lib/fitting/models';
 import { featureMatrix } from '@/lib/datasets';
 import { parseModelJson, toModelJson } from '@/lib/mixture';
 import { Dataset, Fit, MixtureModel, type User, type Workspace } from '@/models';
@@ -8,6 +7,12 @@ import { Dataset, Fit, MixtureModel, type User, type Workspace } from '@/models'
 export const DEMO_FEATURES = ['avg_speed_kmh', 'weekly_distance_km', 'climb_per_ride_m'];
 export const DEMO_MODEL_NAME = 'Riverside ride groups';
 const DEMO_SEED = 20261201;
+
+/**
+ * The club's own caution, beside the calculator's general one (which already says the
+ * percentages are similarity, not a verdict): what the groups are based on, and what to do.
+ */
+export const DEMO_CAUTION = 'The groups come from one autumn season of Riverside club ride logs, so they describe our club, not cyclists in general. Not sure which group to join? Come on any Saturday ride first; the ride leaders will help you find your pace.';
 
 /** Invented ride-group names, matched to fitted clusters by their means (see nameClusters). */
 const GROUP_NAMES = {
@@ -81,7 +86,7 @@ export async function seedDemoModel({ workspace, owner, dataset }: { workspace: 
     model: JSON.parse(toModelJson(engine)),
     clusters,
     fields,
-    caution: DEFAULT_CAUTION,
+    caution: DEMO_CAUTION,
     selectionNote: '',
   });
   console.log(`[partwise] demo model fitted (${best.components} components, ${best.covariance}; ${outcome.candidates.length} candidates in ${durationMs} ms).`);

@@ -1,5 +1,6 @@
 import 'server-only';
 import { AppError } from '@/lib/errors';
+import { DEFAULT_CAUTION } from '@/lib/fitting/models';
 import { isServing, loadServedEmbed, loadServedVersion } from '@/lib/scoring/served';
 import { membershipChartSpec } from './chart-spec';
 import { normalizeOrigin } from './origins';
@@ -7,7 +8,7 @@ import { normalizeOrigin } from './origins';
 /** Everything the calculator page renders, or why it cannot. */
 export type CalculatorView =
   | { state: 'missing' }
-  | { state: 'unavailable'; theme: 'light' | 'dark' }
+  | { state: 'unavailable'; theme: 'light' | 'dark'; token: string; hostOrigin: string | null }
   | { state: 'ready'; props: CalculatorProps };
 
 export interface CalculatorProps {
@@ -39,16 +40,17 @@ export function textOn(hex: string): string {
 export async function loadCalculatorView(token: string, host: string | undefined): Promise<CalculatorView> {
   const embed = await loadServedEmbed(token);
   if (!embed) return { state: 'missing' };
-  if (!isServing(embed)) return { state: 'unavailable', theme: embed.theme };
+  const requestedHost = host ? normalizeOrigin(host) : null;
+  const hostOrigin = requestedHost && embed.allowedOrigins.includes(requestedHost) ? requestedHost : null;
+  const unavailable = { state: 'unavailable', theme: embed.theme, token: embed.token, hostOrigin } as const;
+  if (!isServing(embed)) return unavailable;
   let version;
   try {
     version = await loadServedVersion(embed.activeVersionId!);
   } catch (e) {
-    if (e instanceof AppError) return { state: 'unavailable', theme: embed.theme };
+    if (e instanceof AppError) return unavailable;
     throw e;
   }
-  const requestedHost = host ? normalizeOrigin(host) : null;
-  const hostOrigin = requestedHost && embed.allowedOrigins.includes(requestedHost) ? requestedHost : null;
   const accent = /^#[0-9a-fA-F]{6}$/.test(embed.accentColor) ? embed.accentColor : '#2f6f5e';
   const { fields, clusters, caution } = version.payload;
   return {
@@ -58,7 +60,7 @@ export async function loadCalculatorView(token: string, host: string | undefined
       title: embed.title,
       fields: fields.map((f) => ({ feature: f.feature, label: f.label, unit: f.unit, min: f.min, max: f.max, help: f.help })),
       clusters: clusters.map((c) => ({ label: c.label, description: c.description, color: c.color })),
-      caution,
+      caution: publisherCaution(caution),
       theme: embed.theme,
       accent,
       accentText: textOn(accent),
@@ -67,4 +69,14 @@ export async function loadCalculatorView(token: string, host: string | undefined
       chartSpec: membershipChartSpec(clusters, embed.theme),
     },
   };
+}
+
+/**
+ * The publisher's own caution, shown beside the general one. Models start with a default
+ * text that says what the general caution already says; shown as the publisher's, it would
+ * only repeat it, so only text the publisher actually wrote is kept.
+ */
+export function publisherCaution(text: string): string {
+  const words = (t: string) => t.trim().replace(/\s+/g, ' ').toLowerCase();
+  return words(text) === words(DEFAULT_CAUTION) ? '' : text.trim();
 }

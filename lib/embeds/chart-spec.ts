@@ -5,7 +5,8 @@ import { compile, type TopLevelSpec } from 'vega-lite';
  * The membership chart is written in vega-lite and compiled to a vega spec here, on
  * the server, so the calculator ships only vega's runtime (loaded when the first
  * answer arrives) and never the vega-lite compiler. Rows arrive in the dataset
- * `memberships` as { label, probability }.
+ * `memberships` as { label, probability, text }, text being the percentage as the
+ * calculator writes it elsewhere (components/embed/percent.ts).
  */
 export interface ChartCluster {
   label: string;
@@ -49,7 +50,7 @@ export function membershipChartSpec(clusters: ChartCluster[], theme: 'light' | '
         encoding: {
           y: { field: 'label', type: 'nominal', sort: null },
           x: { field: 'probability', type: 'quantitative' },
-          text: { field: 'probability', type: 'quantitative', format: '.0%' },
+          text: { field: 'text', type: 'nominal' },
         },
       },
     ],

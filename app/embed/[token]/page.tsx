@@ -15,7 +15,7 @@ type Props = { params: Promise<{ token: string }>; searchParams: Promise<Record<
 export async function generateMetadata({ params }: Props): Promise<Metadata> {
   const { token } = await params;
   const view = await loadCalculatorView(token, undefined);
-  return { title: view.state === 'ready' ? view.props.title : 'Calculator' };
+  return { title: view.state === 'ready' ? view.props.title : view.state === 'missing' ? 'No calculator here' : 'Calculator' };
 }
 
 export default async function CalculatorPage({ params, searchParams }: Props) {
@@ -23,7 +23,7 @@ export default async function CalculatorPage({ params, searchParams }: Props) {
   const host = (await searchParams).host;
   const view = await loadCalculatorView(token, typeof host === 'string' ? host : undefined);
   if (view.state === 'missing') notFound();
-  if (view.state === 'unavailable') return <CalculatorUnavailable theme={view.theme} />;
+  if (view.state === 'unavailable') return <CalculatorUnavailable theme={view.theme} token={view.token} hostOrigin={view.hostOrigin} />;
   const { props } = view;
   return (
     <CalculatorFrame theme={props.theme} accent={props.accent} accentText={props.accentText}>
