@@ -1,3 +1,4 @@
+import { servedVersionWords } from '@/lib/embeds/status-words';
 import type { Metadata } from 'next';
 import Link from 'next/link';
 import { notFound } from 'next/navigation';
@@ -87,7 +88,7 @@ export default async function SupportCalculatorPage({ params }: Props) {
         <Stat label="Answers this month" value={fmtCount(c.usage.monthAnswers)} hint={`plan allows ${fmtCount(c.plan.answersPerMonth)} for the workspace`} />
         <Stat label="Last hour" value={fmtCount(c.usage.lastHourAnswers)} hint="sliding 60 minutes" />
         <Stat label="Open reports" value={String(openReports)} hint={`${c.reports.length} in all`} />
-        <Stat label="Versions" value={String(c.versions.length)} hint={c.versions.find((v) => v.active) ? `serving v${c.versions.find((v) => v.active)!.number}` : 'none served'} />
+        <Stat label="Versions" value={String(c.versions.length)} hint={c.versions.find((v) => v.active) ? `${c.status === 'active' ? 'serving' : 'selected:'} v${c.versions.find((v) => v.active)!.number}` : 'none served'} />
       </div>
 
       <section className="pw-card p-6" aria-labelledby="usage-title">
@@ -126,7 +127,7 @@ export default async function SupportCalculatorPage({ params }: Props) {
               {c.versions.map((v) => (
                 <li key={v.id} className="flex flex-wrap justify-between gap-2 py-2">
                   <span>
-                    <strong>v{v.number}</strong> {v.active ? <span className="ml-1 rounded-full bg-moss-100 px-2 py-0.5 text-xs font-bold text-moss-700">served</span> : null}
+                    <strong>v{v.number}</strong> {v.active ? <span className={`ml-1 rounded-full px-2 py-0.5 text-xs font-bold ${c.status === 'active' ? 'bg-moss-100 text-moss-700' : 'bg-paper-deep text-ink-soft'}`}>{servedVersionWords(c.status)}</span> : null}
                   </span>
                   <span className="text-ink-soft">
                     {fmtDateTime(v.createdAt)} · {v.createdBy ?? 'unknown'} · <code title="end of the checksum">…{v.checksumEnd}</code>
