@@ -5,6 +5,7 @@
  * another workspace is simply not found.
  */
 import { z } from 'zod';
+import { storedText } from '@/lib/http/text';
 import { AppError } from '@/lib/errors';
 import { parseWith } from '@/lib/http/handler';
 import { Dataset, Fit, MixtureModel, sequelize } from '@/models';
@@ -84,16 +85,16 @@ export function datasetSummary(d: Dataset, previewRows = 20) {
 
 const featureSetting = z
   .object({
-    name: z.string().min(1),
-    displayName: z.string().trim().min(1, 'Give the feature a display name.').max(80),
-    unit: z.string().trim().max(24),
+    name: storedText('The column name').min(1),
+    displayName: storedText('The display name').trim().min(1, 'Give the feature a display name.').max(80),
+    unit: storedText('The unit').trim().max(24),
     inputMin: z.number().finite(),
     inputMax: z.number().finite(),
   })
   .refine((f) => f.inputMin < f.inputMax, { message: 'The lowest accepted value must be below the highest.', path: ['inputMax'] });
 
 export const datasetUpdateSchema = z.object({
-  name: z.string().trim().min(1, 'Give the dataset a name.').max(200).optional(),
+  name: storedText('The name').trim().min(1, 'Give the dataset a name.').max(200).optional(),
   features: z.array(featureSetting).max(200).optional(),
 });
 export type DatasetUpdate = z.infer<typeof datasetUpdateSchema>;

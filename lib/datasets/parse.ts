@@ -5,6 +5,7 @@
  */
 import Papa from 'papaparse';
 import { AppError, type FieldIssue } from '@/lib/errors';
+import { textProblem } from '@/lib/http/text';
 import type { DatasetColumn } from '@/models/Dataset';
 
 /** Fewest complete rows a dataset may have: below this no mixture is worth fitting. */
@@ -62,6 +63,29 @@ function describeRow(i: number): string {
   return `row ${i + 2}`; // data row i (0-based) sits under the header on sheet row i + 2
 }
 
+/**
+ * NUL characters and unpaired surrogates cannot be stored as text (see lib/http/text.ts);
+ * a NUL after the first 8 KB passes decodeCsvBytes's binary probe and lands here. Names
+ * each cell (or header name) the way a spreadsheet shows it.
+ */
+function throwBrokenText(header: string[], body: string[][]): never {
+  const issues: FieldIssue[] = [];
+  header.forEach((name, j) => {
+    const problem = textProblem(name);
+    if (problem) issues.push({ field: `column ${j + 1}`, message: `The name of column ${j + 1} (row 1) ${problem}` });
+  });
+  for (let i = 0; i < body.length && issues.length < 50; i++) {
+    body[i].forEach((raw, j) => {
+      const problem = textProblem(raw);
+      if (problem) issues.push({ field: `${describeRow(i)}, column ${header[j] || j + 1}`, message: `Row ${i + 2}, column ${JSON.stringify(header[j] ?? `#${j + 1}`)} ${problem}` });
+    });
+  }
+  if (issues.length === 0) throw new AppError('invalid_input', 'The file has characters that cannot be stored as text (a NUL or a broken UTF-16 character).');
+  const shown = issues.slice(0, 3).map((i) => i.message);
+  const more = issues.length > shown.length ? ` (and ${issues.length >= 50 ? 'many' : issues.length - shown.length} more)` : '';
+  throw new AppError('invalid_input', `The file has text that cannot be stored: ${shown.join(' ')}${more}`, { issues });
+}
+
 export function parseCsvText(text: string): ParsedTable {
   if (text.trim() === '') throw new AppError('bad_request', 'The file is empty: a CSV needs a header row and at least one data row.');
   const parsed = Papa.parse<string[]>(text, { header: false, skipEmptyLines: 'greedy', delimitersToGuess: [',', ';', '\t', '|'] });
@@ -95,6 +119,9 @@ export function parseCsvText(text: string): ParsedTable {
     throw new AppError('invalid_input', `The header row has ${headerIssues.length === 1 ? 'a problem' : `${headerIssues.length} problems`}: ${headerIssues.map((i) => i.message).join(' ')}`, { issues: headerIssues });
   }
   if (body.length === 0) throw new AppError('bad_request', 'The file has a header row but no data rows.');
+
+  // Only a file that has one somewhere is searched cell by cell.
+  if (textProblem(text) !== null) throwBrokenText(header, body);
 
   const ragged: FieldIssue[] = [];
   body.forEach((r, i) => {
