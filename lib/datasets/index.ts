@@ -5,7 +5,7 @@
  * another workspace is simply not found.
  */
 import { z } from 'zod';
-import { storedText } from '@/lib/http/text';
+import { clipText, storedText, textProblem } from '@/lib/http/text';
 import { AppError } from '@/lib/errors';
 import { parseWith } from '@/lib/http/handler';
 import { Dataset, Fit, MixtureModel, sequelize } from '@/models';
@@ -25,18 +25,31 @@ export interface UploadInput {
 
 export function datasetNameFrom(filename: string): string {
   const base = filename.replace(/\.(csv|tsv|txt)$/i, '').replace(/[_-]+/g, ' ').trim();
-  return (base || 'Untitled table').slice(0, 200);
+  return clipText(base || 'Untitled table', 200);
+}
+
+/** The upload's name and file name are stored text too (see lib/http/text.ts). */
+function assertStorableNames(input: UploadInput): void {
+  const issues = [
+    { field: 'name', what: 'The dataset name', value: input.name },
+    { field: 'filename', what: 'The file name', value: input.filename },
+  ].flatMap(({ field, what, value }) => {
+    const problem = value ? textProblem(value) : null;
+    return problem ? [{ field, message: `${what} ${problem}` }] : [];
+  });
+  if (issues.length) throw new AppError('invalid_input', issues.map((i) => i.message).join(' '), { issues });
 }
 
 export async function createDataset(input: UploadInput): Promise<Dataset> {
+  assertStorableNames(input);
   await assertUploadBytes(input.workspaceId, input.bytes.length);
   const table = parseCsvText(decodeCsvBytes(input.bytes));
   await assertUploadRows(input.workspaceId, table.completeRows, input.bytes.length);
-  const filename = (input.filename || 'pasted.csv').slice(0, 255);
+  const filename = clipText(input.filename || 'pasted.csv', 255);
   return Dataset.create({
     workspaceId: input.workspaceId,
     createdById: input.userId,
-    name: (input.name?.trim() || datasetNameFrom(filename)).slice(0, 200),
+    name: clipText(input.name?.trim() || datasetNameFrom(filename), 200),
     originalFilename: filename,
     originalCsv: Buffer.from(input.bytes),
     columns: table.columns,

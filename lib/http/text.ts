@@ -19,6 +19,13 @@ export function textProblem(value: string): string | null {
   return null;
 }
 
+/** At most `max` UTF-16 units, never cutting a surrogate pair in half (which would leave a lone one). */
+export function clipText(value: string, max: number): string {
+  if (value.length <= max) return value;
+  const code = value.charCodeAt(max - 1);
+  return value.slice(0, code >= 0xd800 && code <= 0xdbff ? max - 1 : max);
+}
+
 /**
  * z.string() for every text field that is stored or searched: chain .trim(), .min(),
  * .max() and friends on it as usual. `what` names the field in the message

@@ -6,14 +6,14 @@ import { route } from '@/lib/http/handler';
  * client (or a typo in one) gets the same error shape as from a real route instead of
  * the HTML page-not-found. 'any' origin: a 404 changes nothing, whoever asks.
  */
-const notFound = route(() => {
+function noSuchApi(): never {
   throw new AppError('not_found', 'There is no API at this address. Check the path against the API documentation.');
-}, { origin: 'any' });
+}
 
-export const GET = notFound;
-export const HEAD = notFound;
-export const POST = notFound;
-export const PUT = notFound;
-export const PATCH = notFound;
-export const DELETE = notFound;
-export const OPTIONS = notFound;
+export const GET = route(noSuchApi, { origin: 'any' });
+export const HEAD = route(noSuchApi, { origin: 'any' });
+export const POST = route(noSuchApi, { origin: 'any' });
+export const PUT = route(noSuchApi, { origin: 'any' });
+export const PATCH = route(noSuchApi, { origin: 'any' });
+export const DELETE = route(noSuchApi, { origin: 'any' });
+export const OPTIONS = route(noSuchApi, { origin: 'any' });

@@ -25,6 +25,7 @@ import { GET as supportSearchGET } from '@/app/api/support/calculators/route';
 import { GET as supportAuditGET } from '@/app/api/support/audit/route';
 import { POST as supportDisablePOST } from '@/app/api/support/calculators/[id]/disable/route';
 import { POST as workspacesPOST } from '@/app/api/workspaces/route';
+import { DELETE as unknownApiDELETE, GET as unknownApiGET } from '@/app/api/[[...rest]]/route';
 import { payloadChecksum, type VersionPayload } from '@/lib/embeds/payload';
 import { membershipChartSpec } from '@/lib/embeds/chart-spec';
 import { clearScoringCaches } from '@/lib/scoring';
@@ -239,10 +240,17 @@ const CASES: Case[] = [
   { name: 'dataset: unpaired surrogate in the name', handler: () => datasetPATCH, params: () => ({ id: String(w.datasetId) }), request: () => asOwner(`/api/datasets/${w.datasetId}`, { method: 'PATCH', json: { name: `Summer rides ${LONE}` } }), status: 422, names: LONE_SAID, field: 'name' },
   { name: 'dataset: NUL in a feature unit', handler: () => datasetPATCH, params: () => ({ id: String(w.datasetId) }), request: () => asOwner(`/api/datasets/${w.datasetId}`, { method: 'PATCH', json: { features: [{ name: 'avg_speed_kmh', displayName: 'Speed', unit: `km/h${NUL}`, inputMin: 0, inputMax: 80 }] } }), status: 422, names: NUL_SAID, field: 'features.0.unit' },
   { name: 'upload: NUL in a text cell past the first 8 KB', handler: () => datasetsPOST, request: () => upload(lateNulCsv()), status: 422, names: /Row 252, column "rider" contains a NUL character/, field: 'row 252, column rider' },
+  { name: 'upload: NUL in the dataset name (?name=)', handler: () => datasetsPOST, request: () => asOwner(`/api/datasets?filename=t.csv&name=Rides%00`, { body: [HEADER, ...goodRows(12)].join('\n'), headers: { 'content-type': 'text/csv' } }), status: 422, names: /dataset name contains a NUL/, field: 'name' },
+  // (A lone surrogate cannot arrive in a file name: multipart and URLs carry UTF-8, which has none.)
+  { name: 'upload: NUL in the file name (?filename=)', handler: () => datasetsPOST, request: () => asOwner(`/api/datasets?filename=rides%00.csv`, { body: [HEADER, ...goodRows(12)].join('\n'), headers: { 'content-type': 'text/csv' } }), status: 422, names: /file name contains a NUL/, field: 'filename' },
+  { name: 'upload: NUL in the form name field', handler: () => datasetsPOST, request: () => { const f = new FormData(); f.set('file', new File([[HEADER, ...goodRows(12)].join('\n')], 'rides.csv', { type: 'text/csv' })); f.set('name', `Rides${NUL}`); return multipart(f); }, status: 422, names: NUL_SAID, field: 'name' },
   { name: 'sign-up: NUL in the name', handler: () => signupPOST, request: () => signup({ name: `Robin${NUL}Rider`, email: 'robin.nul@club.test' }), status: 422, names: NUL_SAID, field: 'name' },
   { name: 'sign-up: unpaired surrogate in the workspace name', handler: () => signupPOST, request: () => signup({ workspaceName: `Club ${LONE}`, email: 'robin.lone@club.test' }), status: 422, names: LONE_SAID, field: 'workspaceName' },
   { name: 'workspace: NUL in a new workspace name', handler: () => workspacesPOST, request: () => asOwner('/api/workspaces', { json: { name: `Second club${NUL}` } }), status: 422, names: NUL_SAID, field: 'name' },
   { name: 'reset: NUL in the token', handler: () => resetPOST, request: () => publicPost('/api/account/password/reset', { json: { token: `${'x'.repeat(20)}${NUL}${'x'.repeat(20)}`, password: 'a brand new password' } }), status: 422, names: /link contains a NUL/, field: 'token' },
+  // ---- odd input: /api addresses no route file has (app/api/[[...rest]]) ------------------
+  { name: 'unknown API address', handler: () => unknownApiGET, params: () => ({ rest: ['embeds', '1', 'nope'] }), request: () => asOwner('/api/embeds/1/nope'), status: 404, names: /no API at this address/ },
+  { name: 'unknown API address, DELETE', handler: () => unknownApiDELETE, params: () => ({ rest: ['datasets'] as unknown as string }), request: () => asOwner('/api/nothing-here', { method: 'DELETE', headers: { origin: 'https://evil.test' } }), status: 404, names: /no API at this address/ },
   // Last: before the fix "12.0" deleted dataset 12, which would empty the cases above.
   { name: 'id: trailing ".0" does not delete the dataset', handler: () => datasetDELETE, params: () => ({ id: `${smallDatasetId}.0` }), request: () => asOwner(`/api/datasets/${smallDatasetId}.0`, { method: 'DELETE' }), status: 422, names: /written in digits/, field: 'id' },
 ];

@@ -74,3 +74,14 @@ describe('request paths', () => {
     expect(isApiPath('/apix')).toBe(false);
   });
 });
+
+describe('clipping stored text', () => {
+  it('never leaves half of a surrogate pair', async () => {
+    const { clipText } = await import('@/lib/http/text');
+    const name = `${'a'.repeat(199)}🚵 ride`;
+    expect(clipText(name, 200)).toBe('a'.repeat(199));
+    expect(textProblem(clipText(name, 200))).toBeNull();
+    expect(clipText(name, 201)).toBe(`${'a'.repeat(199)}🚵`);
+    expect(clipText('short', 200)).toBe('short');
+  });
+});
