@@ -33,7 +33,8 @@ import { parseCsvText } from '@/lib/datasets/parse';
 import { Dataset, Fit, MixtureModel, ModelVersion, Subscription } from '@/models';
 import { buildWorld } from '../matrix/world';
 import type { World } from '../matrix/types';
-import { makeRequest } from '../../helpers/auth';
+import { makeRequest, sessionCookie } from '../../helpers/auth';
+import { WORKSPACE_COOKIE } from '@/lib/auth/cookies';
 import { parseExpression } from 'vega-expression';
 import { changedTables, fingerprint } from './snapshot';
 
@@ -218,6 +219,8 @@ const CASES: Case[] = [
   { name: 'id: hexadecimal dataset filter on the fit list', handler: () => fitsGET, request: () => asOwner(`/api/fits?datasetId=0x${w.datasetId.toString(16)}`), status: 422, names: /datasetId: must be a positive whole number/, field: 'datasetId' },
   { name: 'id: candidate index as an exponent', handler: () => fitReviewGET, params: () => ({ id: String(w.fitId) }), request: () => asOwner(`/api/fits/${w.fitId}/review?candidate=1e0`), status: 422, names: /candidate: must be a whole number written in digits/, field: 'candidate' },
   { name: 'id: dataset preview size in hexadecimal', handler: () => datasetGET, params: () => ({ id: String(w.datasetId) }), request: () => asOwner(`/api/datasets/${w.datasetId}?preview=0x10`), status: 422, names: /preview/, field: 'preview' },
+  // The current-workspace cookie is an id too: "1e400" read as Infinity reached the query.
+  ...['1e400', `0x${(2).toString(16)}`].map((value): Case => ({ name: `id: workspace cookie "${value}" falls back to the member's own workspace`, handler: () => embedPATCH, params: () => ({ id: String(w.embedId) }), request: async () => makeRequest(`/api/embeds/${w.embedId}`, { method: 'PATCH', json: { title: `Bad${NUL}` }, headers: { cookie: `${await sessionCookie(w.users.owner.id)}; ${WORKSPACE_COOKIE}=${value}` } }), status: 422, names: NUL_SAID, field: 'title' })),
   // ---- odd input: NUL characters and unpaired surrogates in text ---------------------
   { name: 'report: NUL in the token', handler: () => reportsPOST, request: () => report({ token: `${w.embedToken.slice(0, 12)}${NUL}${w.embedToken.slice(12)}` }), status: 422, names: /calculator token contains a NUL/, field: 'token' },
   { name: 'report: NUL in the message', handler: () => reportsPOST, request: () => report({ message: `The labels are misleading${NUL} here.` }), status: 422, names: NUL_SAID, field: 'message' },
@@ -249,8 +252,8 @@ const CASES: Case[] = [
   { name: 'workspace: NUL in a new workspace name', handler: () => workspacesPOST, request: () => asOwner('/api/workspaces', { json: { name: `Second club${NUL}` } }), status: 422, names: NUL_SAID, field: 'name' },
   { name: 'reset: NUL in the token', handler: () => resetPOST, request: () => publicPost('/api/account/password/reset', { json: { token: `${'x'.repeat(20)}${NUL}${'x'.repeat(20)}`, password: 'a brand new password' } }), status: 422, names: /link contains a NUL/, field: 'token' },
   // ---- odd input: /api addresses no route file has (app/api/[[...rest]]) ------------------
-  { name: 'unknown API address', handler: () => unknownApiGET, params: () => ({ rest: ['embeds', '1', 'nope'] }), request: () => asOwner('/api/embeds/1/nope'), status: 404, names: /no API at this address/ },
-  { name: 'unknown API address, DELETE', handler: () => unknownApiDELETE, params: () => ({ rest: ['datasets'] as unknown as string }), request: () => asOwner('/api/nothing-here', { method: 'DELETE', headers: { origin: 'https://evil.test' } }), status: 404, names: /no API at this address/ },
+  { name: 'unknown API address', handler: () => unknownApiGET, request: () => asOwner('/api/embeds/1/nope'), status: 404, names: /no API at this address/ },
+  { name: 'unknown API address, DELETE', handler: () => unknownApiDELETE, request: () => asOwner('/api/nothing-here', { method: 'DELETE', headers: { origin: 'https://evil.test' } }), status: 404, names: /no API at this address/ },
   // Last: before the fix "12.0" deleted dataset 12, which would empty the cases above.
   { name: 'id: trailing ".0" does not delete the dataset', handler: () => datasetDELETE, params: () => ({ id: `${smallDatasetId}.0` }), request: () => asOwner(`/api/datasets/${smallDatasetId}.0`, { method: 'DELETE' }), status: 422, names: /written in digits/, field: 'id' },
 ];
