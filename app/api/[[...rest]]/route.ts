@@ -7,7 +7,7 @@ import { route } from '@/lib/http/handler';
  * the HTML page-not-found. 'any' origin: a 404 changes nothing, whoever asks.
  */
 function noSuchApi(): never {
-  throw new AppError('not_found', 'There is no API at this address. Check the path against the API documentation.');
+  throw new AppError('not_found', 'There is no API at this address; check the path and the method.');
 }
 
 export const GET = route(noSuchApi, { origin: 'any' });
