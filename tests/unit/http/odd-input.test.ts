@@ -85,3 +85,13 @@ describe('clipping stored text', () => {
     expect(clipText('short', 200)).toBe('short');
   });
 });
+
+describe('calculator frame policy', () => {
+  it('treats a token with a broken % escape as an unknown calculator instead of throwing', async () => {
+    const { framePolicyForPath } = await import('@/lib/embeds/frame-policy');
+    for (const p of ['/embed/%E0%A4%A', '/embed/%ZZ']) {
+      const policy = await framePolicyForPath(p);
+      expect(policy, p).toMatch(/^frame-ancestors 'self'; /);
+    }
+  });
+});
