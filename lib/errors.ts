@@ -9,6 +9,7 @@ export const ERROR_STATUS = {
   unauthenticated: 401,
   forbidden: 403,
   not_found: 404,
+  method_not_allowed: 405,
   conflict: 409,
   gone: 410,
   payload_too_large: 413,

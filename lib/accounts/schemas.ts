@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { storedText } from '@/lib/http/text';
 
 /**
  * Input shapes of the account forms. Shared by the server (route handlers validate
@@ -11,15 +12,15 @@ z.config({ jitless: true });
 
 export const PASSWORD_MIN = 10;
 
-export const email = z.string().trim().toLowerCase().min(1, 'Enter your e-mail address.').max(320, 'That address is too long.').email('Enter a valid e-mail address, like name@example.org.');
+export const email = storedText('The e-mail address').trim().toLowerCase().min(1, 'Enter your e-mail address.').max(320, 'That address is too long.').email('Enter a valid e-mail address, like name@example.org.');
 export const password = z
   .string()
   .min(PASSWORD_MIN, `Use at least ${PASSWORD_MIN} characters.`)
   .max(200, 'Use at most 200 characters.')
   .refine((p) => p.length < PASSWORD_MIN || p.trim().length >= PASSWORD_MIN, 'Spaces alone do not count; use letters, digits or symbols too.');
-export const personName = z.string().trim().min(1, 'Tell us what to call you.').max(120, 'Use at most 120 characters.');
-export const workspaceName = z.string().trim().min(2, 'Give the workspace a name of at least 2 characters.').max(120, 'Use at most 120 characters.');
-export const token = z.string().trim().min(16, 'This link is incomplete; open it again from the e-mail.').max(200, 'This link is not valid.');
+export const personName = storedText('The name').trim().min(1, 'Tell us what to call you.').max(120, 'Use at most 120 characters.');
+export const workspaceName = storedText('The workspace name').trim().min(2, 'Give the workspace a name of at least 2 characters.').max(120, 'Use at most 120 characters.');
+export const token = storedText('The link').trim().min(16, 'This link is incomplete; open it again from the e-mail.').max(200, 'This link is not valid.');
 export const roleSchema = z.enum(['owner', 'member'], { message: 'Choose owner or member.' });
 
 export const signUpSchema = z.object({ name: personName, email, password, workspaceName });
@@ -39,5 +40,6 @@ export type InviteInput = z.input<typeof inviteSchema>;
 export const acceptInvitationSchema = z.object({ token, name: personName.optional(), password: password.optional() });
 
 export const changeRoleSchema = z.object({ role: roleSchema });
-export const switchWorkspaceSchema = z.object({ workspaceId: z.coerce.number({ message: 'Choose a workspace.' }).int().positive('Choose a workspace.') });
+// A JSON number: z.coerce would also read "0x6" or "1e0" as an id.
+export const switchWorkspaceSchema = z.object({ workspaceId: z.number({ message: 'Choose a workspace.' }).int('Choose a workspace.').positive('Choose a workspace.') });
 export const createWorkspaceSchema = z.object({ name: workspaceName });

@@ -1,5 +1,6 @@
 import { getToken } from 'next-auth/jwt';
 import { AppError } from '@/lib/errors';
+import { parseDecimalId } from '@/lib/http/ids';
 import { ensureMailRetryTimer } from '@/lib/mail';
 import { Membership, User, Workspace, type WorkspaceRole } from '@/models';
 import { parseCookies, sessionCookieName, WORKSPACE_COOKIE } from './cookies';
@@ -58,7 +59,7 @@ export async function requireStaff(request: Request): Promise<Actor> {
  */
 export async function requireWorkspace(request: Request, minRole: WorkspaceRole = 'member', workspaceId?: number): Promise<WorkspaceActor> {
   const actor = await requireUser(request);
-  const wanted = workspaceId ?? (Number(parseCookies(request.headers.get('cookie'))[WORKSPACE_COOKIE]) || undefined);
+  const wanted = workspaceId ?? parseDecimalId(parseCookies(request.headers.get('cookie'))[WORKSPACE_COOKIE]) ?? undefined;
   let membership = wanted ? await Membership.findOne({ where: { userId: actor.user.id, workspaceId: wanted } }) : null;
   if (!membership && workspaceId !== undefined) throw new AppError('forbidden', 'You are not a member of that workspace.');
   // No (valid) choice: the workspace joined first, so creating another one does not move people.

@@ -5,6 +5,7 @@
  * another workspace is simply not found.
  */
 import { z } from 'zod';
+import { clipText, storedText, textProblem } from '@/lib/http/text';
 import { AppError } from '@/lib/errors';
 import { parseWith } from '@/lib/http/handler';
 import { Dataset, Fit, MixtureModel, sequelize } from '@/models';
@@ -24,18 +25,31 @@ export interface UploadInput {
 
 export function datasetNameFrom(filename: string): string {
   const base = filename.replace(/\.(csv|tsv|txt)$/i, '').replace(/[_-]+/g, ' ').trim();
-  return (base || 'Untitled table').slice(0, 200);
+  return clipText(base || 'Untitled table', 200);
+}
+
+/** The upload's name and file name are stored text too (see lib/http/text.ts). */
+function assertStorableNames(input: UploadInput): void {
+  const issues = [
+    { field: 'name', what: 'The dataset name', value: input.name },
+    { field: 'filename', what: 'The file name', value: input.filename },
+  ].flatMap(({ field, what, value }) => {
+    const problem = value ? textProblem(value) : null;
+    return problem ? [{ field, message: `${what} ${problem}` }] : [];
+  });
+  if (issues.length) throw new AppError('invalid_input', issues.map((i) => i.message).join(' '), { issues });
 }
 
 export async function createDataset(input: UploadInput): Promise<Dataset> {
+  assertStorableNames(input);
   await assertUploadBytes(input.workspaceId, input.bytes.length);
   const table = parseCsvText(decodeCsvBytes(input.bytes));
   await assertUploadRows(input.workspaceId, table.completeRows, input.bytes.length);
-  const filename = (input.filename || 'pasted.csv').slice(0, 255);
+  const filename = clipText(input.filename || 'pasted.csv', 255);
   return Dataset.create({
     workspaceId: input.workspaceId,
     createdById: input.userId,
-    name: (input.name?.trim() || datasetNameFrom(filename)).slice(0, 200),
+    name: clipText(input.name?.trim() || datasetNameFrom(filename), 200),
     originalFilename: filename,
     originalCsv: Buffer.from(input.bytes),
     columns: table.columns,
@@ -84,16 +98,16 @@ export function datasetSummary(d: Dataset, previewRows = 20) {
 
 const featureSetting = z
   .object({
-    name: z.string().min(1),
-    displayName: z.string().trim().min(1, 'Give the feature a display name.').max(80),
-    unit: z.string().trim().max(24),
+    name: storedText('The column name').min(1),
+    displayName: storedText('The display name').trim().min(1, 'Give the feature a display name.').max(80),
+    unit: storedText('The unit').trim().max(24),
     inputMin: z.number().finite(),
     inputMax: z.number().finite(),
   })
   .refine((f) => f.inputMin < f.inputMax, { message: 'The lowest accepted value must be below the highest.', path: ['inputMax'] });
 
 export const datasetUpdateSchema = z.object({
-  name: z.string().trim().min(1, 'Give the dataset a name.').max(200).optional(),
+  name: storedText('The name').trim().min(1, 'Give the dataset a name.').max(200).optional(),
   features: z.array(featureSetting).max(200).optional(),
 });
 export type DatasetUpdate = z.infer<typeof datasetUpdateSchema>;

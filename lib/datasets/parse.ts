@@ -5,6 +5,7 @@
  */
 import Papa from 'papaparse';
 import { AppError, type FieldIssue } from '@/lib/errors';
+import { textProblem } from '@/lib/http/text';
 import type { DatasetColumn } from '@/models/Dataset';
 
 /** Fewest complete rows a dataset may have: below this no mixture is worth fitting. */
@@ -63,6 +64,29 @@ function describeRow(i: number): string {
 }
 
 /**
+ * NUL characters and unpaired surrogates cannot be stored as text (see lib/http/text.ts);
+ * a NUL after the first 8 KB passes decodeCsvBytes's binary probe and lands here. Names
+ * each cell (or header name) the way a spreadsheet shows it.
+ */
+function throwBrokenText(header: string[], body: string[][]): never {
+  const issues: FieldIssue[] = [];
+  header.forEach((name, j) => {
+    const problem = textProblem(name);
+    if (problem) issues.push({ field: `column ${j + 1}`, message: `The name of column ${j + 1} (row 1) ${problem}` });
+  });
+  for (let i = 0; i < body.length && issues.length < 50; i++) {
+    body[i].forEach((raw, j) => {
+      const problem = textProblem(raw);
+      if (problem) issues.push({ field: `${describeRow(i)}, column ${header[j] || j + 1}`, message: `Row ${i + 2}, column ${JSON.stringify(header[j] ?? `#${j + 1}`)} ${problem}` });
+    });
+  }
+  if (issues.length === 0) throw new AppError('invalid_input', 'The file has characters that cannot be stored as text (a NUL or a broken UTF-16 character).');
+  const shown = issues.slice(0, 3).map((i) => i.message);
+  const more = issues.length > shown.length ? ` (and ${issues.length >= 50 ? 'many' : issues.length - shown.length} more)` : '';
+  throw new AppError('invalid_input', `The file has text that cannot be stored: ${shown.join(' ')}${more}`, { issues });
+}
+
+/**
  * `minCompleteRows`: fewest rows with a number in every numeric column (default
  * MIN_DATA_ROWS, what a fit needs); scoring a few rows from the command line passes 0.
  */
@@ -100,6 +124,9 @@ export function parseCsvText(text: string, opts: { minCompleteRows?: number } = 
     throw new AppError('invalid_input', `The header row has ${headerIssues.length === 1 ? 'a problem' : `${headerIssues.length} problems`}: ${headerIssues.map((i) => i.message).join(' ')}`, { issues: headerIssues });
   }
   if (body.length === 0) throw new AppError('bad_request', 'The file has a header row but no data rows.');
+
+  // Only a file that has one somewhere is searched cell by cell.
+  if (textProblem(text) !== null) throwBrokenText(header, body);
 
   const ragged: FieldIssue[] = [];
   body.forEach((r, i) => {

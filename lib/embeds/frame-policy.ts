@@ -12,11 +12,20 @@ export function calculatorPolicy(allowedOrigins: readonly string[]): string {
   return [frameAncestors(allowedOrigins), ...appDirectives()].join('; ');
 }
 
+/** A path segment decoded, or null for a broken %-escape (no calculator has one). */
+function decodedSegment(segment: string): string | null {
+  try {
+    return decodeURIComponent(segment);
+  } catch {
+    return null;
+  }
+}
+
 /** Policy for a request path under /embed/; null when the path is not a calculator. */
 export async function framePolicyForPath(pathname: string): Promise<string | null> {
   const match = /^\/embed\/([^/]+)\/?$/.exec(pathname);
   if (!match) return null;
-  const token = decodeURIComponent(match[1]);
-  const embed = TOKEN_SHAPE.test(token) ? await loadServedEmbed(token) : null;
+  const token = decodedSegment(match[1]);
+  const embed = token !== null && TOKEN_SHAPE.test(token) ? await loadServedEmbed(token) : null;
   return calculatorPolicy(embed?.allowedOrigins ?? []);
 }

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { storedText } from '@/lib/http/text';
 
 /**
  * Allowed host origins: exact scheme + host + port entries. Everything else a person
@@ -37,7 +38,7 @@ export function normalizeOrigin(input: string): string | null {
 
 /** zod: a list of origins, normalised and de-duplicated, with a message per bad entry. */
 export const allowedOriginsSchema = z
-  .array(z.string().max(300, 'is longer than 300 characters'))
+  .array(storedText('The origin').max(300, 'is longer than 300 characters'))
   .max(MAX_ALLOWED_ORIGINS, `List at most ${MAX_ALLOWED_ORIGINS} origins.`)
   .transform((list, ctx) => {
     const out: string[] = [];

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { storedText } from '@/lib/http/text';
 import { clientAddress } from '@/lib/audit';
 import { AppError } from '@/lib/errors';
 import { takeToken } from '@/lib/rate-limit';
@@ -18,11 +19,11 @@ export type ReportReason = keyof typeof REPORT_REASONS;
 
 export const reportSchema = z
   .object({
-    token: z.string().min(10).max(64),
+    token: storedText('The calculator token').min(10).max(64),
     reason: z.enum(Object.keys(REPORT_REASONS) as [ReportReason, ...ReportReason[]], { error: 'Choose a reason.' }),
-    message: z.string().trim().min(10, 'Tell us in a sentence or two what is wrong (at least 10 characters).').max(2000, 'Keep the message under 2000 characters.'),
+    message: storedText('The message').trim().min(10, 'Tell us in a sentence or two what is wrong (at least 10 characters).').max(2000, 'Keep the message under 2000 characters.'),
     email: z.union([z.literal(''), z.email('Enter a valid e-mail address, or leave it empty.').max(320)]).optional(),
-    hostOrigin: z.string().max(300).optional(),
+    hostOrigin: storedText('The host page address').max(300).optional(),
   })
   .strict();
 export type ReportInput = z.infer<typeof reportSchema>;

@@ -1,5 +1,6 @@
 import { nanoid } from 'nanoid';
 import { z } from 'zod';
+import { storedText } from '@/lib/http/text';
 import { recordAudit } from '@/lib/audit';
 import { AppError } from '@/lib/errors';
 import { invalidateEmbed } from '@/lib/scoring/served';
@@ -24,7 +25,7 @@ export const newToken = () => nanoid(TOKEN_LENGTH);
 
 export const embedSettingsSchema = z
   .object({
-    title: z.string().trim().min(1, 'Give the calculator a title.').max(200, 'Keep the title under 200 characters.'),
+    title: storedText('The title').trim().min(1, 'Give the calculator a title.').max(200, 'Keep the title under 200 characters.'),
     allowedOrigins: allowedOriginsSchema,
     theme: z.enum(['light', 'dark'], { error: 'Choose light or dark.' }),
     accentColor: z.string().regex(/^#[0-9a-fA-F]{6}$/, 'Use a colour like #2f6f5e.'),

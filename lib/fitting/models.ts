@@ -4,6 +4,7 @@
  * copied in, so the model outlives its fit and dataset.
  */
 import { z } from 'zod';
+import { storedText } from '@/lib/http/text';
 import { AppError } from '@/lib/errors';
 import { parseWith } from '@/lib/http/handler';
 import { MixtureError, parseModelJson, toModelJson } from '@/lib/mixture';
@@ -20,8 +21,8 @@ export const createModelSchema = z.object({
   fitId: z.number().int().positive(),
   /** Position in the fit's ranked candidate list (0 = the BIC winner). */
   candidate: z.number().int().min(0),
-  name: z.string().trim().min(1, 'Give the model a name.').max(200),
-  selectionNote: z.string().trim().max(2000).default(''),
+  name: storedText('The name').trim().min(1, 'Give the model a name.').max(200),
+  selectionNote: storedText('The note').trim().max(2000).default(''),
 });
 
 export async function createModelFromFit(workspaceId: number, userId: number, input: unknown): Promise<MixtureModel> {
@@ -74,27 +75,27 @@ export async function createModelFromFit(workspaceId: number, userId: number, in
 }
 
 const clusterSchema = z.object({
-  label: z.string().trim().min(1, 'Give the cluster a label.').max(60, 'Keep the label under 60 characters.'),
-  description: z.string().trim().max(160, 'Keep the description to one line (160 characters).'),
+  label: storedText('The label').trim().min(1, 'Give the cluster a label.').max(60, 'Keep the label under 60 characters.'),
+  description: storedText('The description').trim().max(160, 'Keep the description to one line (160 characters).'),
   color: z.string().regex(HEX_COLOR, 'Use a colour like #2f6f5e.'),
 });
 const fieldSchema = z
   .object({
-    feature: z.string().min(1),
-    label: z.string().trim().min(1, 'Give the field a label.').max(80),
-    unit: z.string().trim().max(24),
+    feature: storedText('The feature').min(1),
+    label: storedText('The label').trim().min(1, 'Give the field a label.').max(80),
+    unit: storedText('The unit').trim().max(24),
     min: z.number().finite(),
     max: z.number().finite(),
-    help: z.string().trim().max(300),
+    help: storedText('The help text').trim().max(300),
   })
   .refine((f) => f.min < f.max, { message: 'The lowest accepted value must be below the highest.', path: ['max'] });
 
 export const updateModelSchema = z.object({
-  name: z.string().trim().min(1, 'Give the model a name.').max(200).optional(),
+  name: storedText('The name').trim().min(1, 'Give the model a name.').max(200).optional(),
   clusters: z.array(clusterSchema).optional(),
   fields: z.array(fieldSchema).optional(),
-  caution: z.string().trim().max(600).optional(),
-  selectionNote: z.string().trim().max(2000).optional(),
+  caution: storedText('The caution').trim().max(600).optional(),
+  selectionNote: storedText('The note').trim().max(2000).optional(),
 });
 
 export async function findModel(workspaceId: number, id: number): Promise<MixtureModel> {

@@ -4,6 +4,7 @@
  * from k-means++ and a fixed seed so a fit can be repeated exactly.
  */
 import { z } from 'zod';
+import { storedText } from '@/lib/http/text';
 
 export const STRUCTURES = ['full', 'diagonal', 'spherical', 'tied'] as const;
 export const MAX_COMPONENTS = 12;
@@ -24,7 +25,7 @@ export const FIT_DEFAULTS = {
 export const fitParamsSchema = z
   .object({
     datasetId: z.number().int().positive(),
-    features: z.array(z.string().min(1)).min(1, 'Choose at least one feature.').max(30, 'Choose at most 30 features.'),
+    features: z.array(storedText('A feature name').min(1)).min(1, 'Choose at least one feature.').max(30, 'Choose at most 30 features.'),
     minComponents: z.number().int().min(1).max(MAX_COMPONENTS).default(FIT_DEFAULTS.minComponents),
     maxComponents: z.number().int().min(1).max(MAX_COMPONENTS, `At most ${MAX_COMPONENTS} components.`).default(FIT_DEFAULTS.maxComponents),
     covariances: z.array(z.enum(STRUCTURES)).min(1, 'Choose at least one covariance structure.').default(FIT_DEFAULTS.covariances),

@@ -1,5 +1,6 @@
 import { ZodError, type ZodType, z } from 'zod';
 import { AppError, type FieldIssue } from '@/lib/errors';
+import { decimalId } from './ids';
 import { assertSameOrigin } from './origin';
 
 /** zod issues → our field issues, with dotted paths a form can map back to fields. */
@@ -49,7 +50,8 @@ export async function readParams<T>(params: Promise<unknown> | unknown, schema: 
   return parseWith(schema, await params, 'address');
 }
 
-export const idParam = z.object({ id: z.coerce.number().int().positive() });
+/** `[id]` segments: decimal digits only (see ids.ts); "0x6", "1e1", "Infinity" are refused, not read as numbers. */
+export const idParam = z.object({ id: decimalId() });
 
 /** Anything thrown below a route → the AppError it answers with; unexpected ones are logged here, never shown. */
 export function toAppError(error: unknown, where: string): AppError {

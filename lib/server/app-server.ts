@@ -2,6 +2,7 @@ import http from 'node:http';
 import { flushUsage, pendingAnswers } from '@/lib/usage';
 import { settleForwarding, trustsProxy } from './forwarding';
 import { productionSettingProblems } from './settings';
+import { jsonForBareApiErrors, settleMalformedPath } from './odd-requests';
 import { answerScore, scoringToken } from './score-fast-path';
 
 /**
@@ -30,8 +31,11 @@ export async function startAppServer({ port, host, dev = false }: AppServerOptio
   const trustProxy = trustsProxy();
   const server = http.createServer((req, res) => {
     const client = settleForwarding(req, trustProxy);
+    // Broken %-escapes never reach Next's router (its param decoding threw on them).
+    if (settleMalformedPath(req, res)) return;
     // `next dev` recompiles the route on edits; the fast path would keep serving the old code.
     const token = dev ? null : scoringToken(req);
+    if (token === null) jsonForBareApiErrors(req, res);
     const work = token !== null ? answerScore(req, res, token, client) : handle(req, res);
     Promise.resolve(work).catch((error) => {
       console.error('[partwise] request failed:', req.method, req.url, error);

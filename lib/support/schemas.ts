@@ -1,12 +1,13 @@
 import { z } from 'zod';
+import { decimalIndex } from '@/lib/http/ids';
+import { storedText } from '@/lib/http/text';
 
 /** Inputs of the support console, shared by route handlers, pages and forms. */
 
 export const REASON_MAX = 1000;
 
 /** Why staff changed something: written into the audit trail and the owner's e-mail. */
-export const reasonSchema = z
-  .string({ error: 'Give a reason.' })
+export const reasonSchema = storedText('The reason', { error: 'Give a reason.' })
   .trim()
   .min(5, 'Give a reason of at least 5 characters; the owner reads it.')
   .max(REASON_MAX, `Keep the reason under ${REASON_MAX} characters.`);
@@ -22,7 +23,7 @@ export const disableBody = z
   .strict();
 
 export const clearFlagBody = z
-  .object({ note: z.string().trim().max(REASON_MAX, `Keep the note under ${REASON_MAX} characters.`).optional() })
+  .object({ note: storedText('The note').trim().max(REASON_MAX, `Keep the note under ${REASON_MAX} characters.`).optional() })
   .strict();
 
 export const SORT_KEYS = ['attention', 'title', 'status', 'workspace', 'plan', 'monthAnswers', 'hourAnswers', 'openReports', 'createdAt'] as const;
@@ -33,18 +34,17 @@ export type StatusFilter = (typeof STATUS_FILTERS)[number];
 
 export const PAGE_SIZES = [10, 25, 50, 100] as const;
 
-const pageNumber = z.coerce.number({ error: 'page must be a whole number.' }).int('page must be a whole number.').min(1, 'page starts at 1.').max(100_000, 'page is too large.');
+// Query strings: decimal digits only ("0x2" or "1e1" are not page numbers).
+const pageNumber = decimalIndex('page must be a whole number.').pipe(z.number().min(1, 'page starts at 1.').max(100_000, 'page is too large.'));
 
 /** Query of GET /api/support/calculators (strings from the URL, coerced). */
 export const searchQuerySchema = z.object({
-  q: z.string().trim().max(200, 'Keep the search under 200 characters.').default(''),
+  q: storedText('The search').trim().max(200, 'Keep the search under 200 characters.').default(''),
   sort: z.enum(SORT_KEYS, { error: `sort must be one of ${SORT_KEYS.join(', ')}.` }).default('attention'),
   dir: z.enum(['asc', 'desc'], { error: 'dir must be asc or desc.' }).default('desc'),
   status: z.enum(STATUS_FILTERS, { error: `status must be one of ${STATUS_FILTERS.join(', ')}.` }).default('any'),
   page: pageNumber.default(1),
-  pageSize: z.coerce
-    .number({ error: 'pageSize must be a number.' })
-    .int()
+  pageSize: decimalIndex('pageSize must be a number.')
     .refine((n) => (PAGE_SIZES as readonly number[]).includes(n), { message: `pageSize must be one of ${PAGE_SIZES.join(', ')}.` })
     .default(25),
 });
@@ -58,13 +58,13 @@ const day = z
 /** Query of GET /api/support/audit. */
 export const auditQuerySchema = z
   .object({
-    action: z.string().trim().max(64, 'Keep the action under 64 characters.').default(''),
-    actor: z.string().trim().max(320, 'Keep the e-mail under 320 characters.').default(''),
-    workspace: z.string().trim().max(120, 'Keep the workspace under 120 characters.').default(''),
+    action: storedText('The action').trim().max(64, 'Keep the action under 64 characters.').default(''),
+    actor: storedText('The e-mail').trim().max(320, 'Keep the e-mail under 320 characters.').default(''),
+    workspace: storedText('The workspace').trim().max(120, 'Keep the workspace under 120 characters.').default(''),
     from: z.union([z.literal(''), day]).default(''),
     to: z.union([z.literal(''), day]).default(''),
     page: pageNumber.default(1),
-    pageSize: z.coerce.number().int().min(10, 'pageSize is at least 10.').max(200, 'pageSize is at most 200.').default(50),
+    pageSize: decimalIndex('pageSize must be a whole number.').pipe(z.number().min(10, 'pageSize is at least 10.').max(200, 'pageSize is at most 200.')).default(50),
   })
   .refine((q) => !q.from || !q.to || q.from <= q.to, { message: 'The start date is after the end date.', path: ['from'] });
 export type AuditQuery = z.infer<typeof auditQuerySchema>;

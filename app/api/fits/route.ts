@@ -3,9 +3,10 @@ import { requireWorkspace } from '@/lib/auth/guard';
 import { startFit } from '@/lib/fitting/jobs';
 import { fitView } from '@/lib/fitting/views';
 import { parseWith, readJson, route } from '@/lib/http/handler';
+import { decimalId } from '@/lib/http/ids';
 import { Fit } from '@/models';
 
-const listQuery = z.object({ datasetId: z.coerce.number().int().positive().optional() });
+const listQuery = z.object({ datasetId: decimalId().optional() });
 
 export const GET = route(async (request) => {
   const actor = await requireWorkspace(request, 'member');

@@ -15,6 +15,17 @@ import { POST as webhookPOST } from '@/app/api/webhooks/payments/route';
 import { POST as signupPOST } from '@/app/api/account/signup/route';
 import { POST as resetPOST } from '@/app/api/account/password/reset/route';
 import { POST as forgotPOST } from '@/app/api/account/password/forgot/route';
+import { GET as embedGET, PATCH as embedPATCH } from '@/app/api/embeds/[id]/route';
+import { GET as modelGET } from '@/app/api/models/[id]/route';
+import { DELETE as datasetDELETE, GET as datasetGET, PATCH as datasetPATCH } from '@/app/api/datasets/[id]/route';
+import { GET as fitsGET } from '@/app/api/fits/route';
+import { GET as fitGET } from '@/app/api/fits/[id]/route';
+import { GET as fitReviewGET } from '@/app/api/fits/[id]/review/route';
+import { GET as supportSearchGET } from '@/app/api/support/calculators/route';
+import { GET as supportAuditGET } from '@/app/api/support/audit/route';
+import { POST as supportDisablePOST } from '@/app/api/support/calculators/[id]/disable/route';
+import { POST as workspacesPOST } from '@/app/api/workspaces/route';
+import { DELETE as unknownApiDELETE, GET as unknownApiGET } from '@/app/api/[[...rest]]/route';
 import { payloadChecksum, type VersionPayload } from '@/lib/embeds/payload';
 import { membershipChartSpec } from '@/lib/embeds/chart-spec';
 import { clearScoringCaches } from '@/lib/scoring';
@@ -22,7 +33,8 @@ import { parseCsvText } from '@/lib/datasets/parse';
 import { Dataset, Fit, MixtureModel, ModelVersion, Subscription } from '@/models';
 import { buildWorld } from '../matrix/world';
 import type { World } from '../matrix/types';
-import { makeRequest } from '../../helpers/auth';
+import { makeRequest, sessionCookie } from '../../helpers/auth';
+import { WORKSPACE_COOKIE } from '@/lib/auth/cookies';
 import { parseExpression } from 'vega-expression';
 import { changedTables, fingerprint } from './snapshot';
 
@@ -65,6 +77,7 @@ const upload = (content: string | Uint8Array, opts: { type?: string; headers?: R
   if (opts.as === 'outsider') return makeRequest('/api/datasets?filename=t.csv', { userId: w.users.outsider.id, workspaceId: w.otherWorkspaceId, body: body as BodyInit, headers });
   return asOwner('/api/datasets?filename=t.csv', { body: body as BodyInit, headers });
 };
+const asStaff = (url: string, opts: Parameters<typeof makeRequest>[1] = {}) => makeRequest(url, { userId: w.users.staff.id, ...opts });
 const multipart = (form: FormData) => asOwner('/api/datasets', { method: 'POST', body: form });
 const fit = (json: Record<string, unknown>) => asOwner('/api/fits', { json: { datasetId: w.datasetId, features: FEATURES, minComponents: 1, maxComponents: 3, ...json } });
 const model = (candidate: number, extra: Record<string, unknown> = {}) => asOwner('/api/models', { json: { fitId: damagedFitId, candidate, name: 'From damaged fit', selectionNote: 'catalogue', ...extra } });
@@ -87,6 +100,15 @@ const signed = (body: string) => Stripe.webhooks.generateTestHeaderString({ payl
 const signup = (json: Record<string, unknown>) => publicPost('/api/account/signup', { json: { name: 'Robin Rider', email: 'robin@club.test', password: 'a long enough password', workspaceName: 'Club', ...json } });
 
 const scoreCtx = () => ({ token: w.embedToken });
+
+/** NUL and an unpaired surrogate: JSON and URLs carry both; no person types either. */
+const NUL = '\u0000';
+const LONE = '\ud83d';
+const NUL_SAID = /contains a NUL character/;
+const LONE_SAID = /unpaired UTF-16 surrogate/;
+/** A CSV whose first NUL sits past decodeCsvBytes's 8 KB binary probe, in text column "rider", sheet row 252. */
+const lateNulCsv = () =>
+  ['rider,avg_speed_kmh,weekly_distance_km,climb_per_ride_m', ...Array.from({ length: 300 }, (_, i) => `${i === 250 ? `rider${NUL}250` : `rider-${String(i).padStart(4, '0')}-of-the-riverside-club`},${20 + (i % 7)},${50 + i},${100 + i * 3}`)].join('\n');
 
 /** A copy of the good model JSON with one change applied. */
 function damaged(change: (m: Record<string, any>) => void): Record<string, unknown> {
@@ -185,6 +207,55 @@ const CASES: Case[] = [
   { name: 'report: invalid e-mail', handler: () => reportsPOST, request: () => report({ email: 'nobody' }), status: 422, names: /valid e-mail address/, field: 'email' },
   { name: 'report: extra key', handler: () => reportsPOST, request: () => report({ isStaff: true }), status: 422, names: /isStaff|[Uu]nrecognized/ },
   { name: 'report: unknown calculator', handler: () => reportsPOST, request: () => report({ token: 'NoSuchToken_abcdefghijkl' }), status: 404, names: /no calculator at this address/ },
+  // ---- odd input: ids that are not plain decimal -------------------------------------
+  // z.coerce.number() read all of these as numbers; "0x…" and "….0" acted on the real record.
+  { name: 'id: hexadecimal (0x…) does not reach the embed', handler: () => embedPATCH, params: () => ({ id: `0x${w.embedId.toString(16)}` }), request: () => asOwner(`/api/embeds/0x${w.embedId.toString(16)}`, { method: 'PATCH', json: { title: 'Renamed through a hex id' } }), status: 422, names: /id: must be a positive whole number written in digits/, field: 'id' },
+  { name: 'id: exponent (6e0)', handler: () => embedGET, params: () => ({ id: `${w.embedId}e0` }), request: () => asOwner(`/api/embeds/${w.embedId}e0`), status: 422, names: /written in digits/, field: 'id' },
+  { name: 'id: Infinity', handler: () => modelGET, params: () => ({ id: 'Infinity' }), request: () => asOwner('/api/models/Infinity'), status: 422, names: /written in digits/, field: 'id' },
+  { name: 'id: 1e400', handler: () => modelGET, params: () => ({ id: '1e400' }), request: () => asOwner('/api/models/1e400'), status: 422, names: /written in digits/, field: 'id' },
+  { name: 'id: beyond the safe integers', handler: () => fitGET, params: () => ({ id: '9007199254740993' }), request: () => asOwner('/api/fits/9007199254740993'), status: 422, names: /written in digits/, field: 'id' },
+  { name: 'id: leading space and plus sign', handler: () => datasetGET, params: () => ({ id: ` +${w.datasetId}` }), request: () => asOwner(`/api/datasets/%20%2B${w.datasetId}`), status: 422, names: /written in digits/, field: 'id' },
+  { name: 'id: NUL inside', handler: () => datasetGET, params: () => ({ id: `${w.datasetId}${NUL}` }), request: () => asOwner(`/api/datasets/${w.datasetId}%00`), status: 422, names: /written in digits/, field: 'id' },
+  { name: 'id: hexadecimal dataset filter on the fit list', handler: () => fitsGET, request: () => asOwner(`/api/fits?datasetId=0x${w.datasetId.toString(16)}`), status: 422, names: /datasetId: must be a positive whole number/, field: 'datasetId' },
+  { name: 'id: candidate index as an exponent', handler: () => fitReviewGET, params: () => ({ id: String(w.fitId) }), request: () => asOwner(`/api/fits/${w.fitId}/review?candidate=1e0`), status: 422, names: /candidate: must be a whole number written in digits/, field: 'candidate' },
+  { name: 'id: dataset preview size in hexadecimal', handler: () => datasetGET, params: () => ({ id: String(w.datasetId) }), request: () => asOwner(`/api/datasets/${w.datasetId}?preview=0x10`), status: 422, names: /preview/, field: 'preview' },
+  // The current-workspace cookie is an id too: "1e400" read as Infinity reached the query.
+  ...['1e400', `0x${(2).toString(16)}`].map((value): Case => ({ name: `id: workspace cookie "${value}" falls back to the member's own workspace`, handler: () => embedPATCH, params: () => ({ id: String(w.embedId) }), request: async () => makeRequest(`/api/embeds/${w.embedId}`, { method: 'PATCH', json: { title: `Bad${NUL}` }, headers: { cookie: `${await sessionCookie(w.users.owner.id)}; ${WORKSPACE_COOKIE}=${value}` } }), status: 422, names: NUL_SAID, field: 'title' })),
+  // ---- odd input: NUL characters and unpaired surrogates in text ---------------------
+  { name: 'report: NUL in the token', handler: () => reportsPOST, request: () => report({ token: `${w.embedToken.slice(0, 12)}${NUL}${w.embedToken.slice(12)}` }), status: 422, names: /calculator token contains a NUL/, field: 'token' },
+  { name: 'report: NUL in the message', handler: () => reportsPOST, request: () => report({ message: `The labels are misleading${NUL} here.` }), status: 422, names: NUL_SAID, field: 'message' },
+  { name: 'report: unpaired surrogate in the message', handler: () => reportsPOST, request: () => report({ message: `The labels are misleading ${LONE} here.` }), status: 422, names: LONE_SAID, field: 'message' },
+  { name: 'report: NUL in the host page address', handler: () => reportsPOST, request: () => report({ hostOrigin: `https://club.example${NUL}` }), status: 422, names: NUL_SAID, field: 'hostOrigin' },
+  { name: 'support search: NUL in the search', handler: () => supportSearchGET, request: () => asStaff('/api/support/calculators?q=river%00side'), status: 422, names: /search contains a NUL/, field: 'q' },
+  { name: 'support search: page in hexadecimal', handler: () => supportSearchGET, request: () => asStaff('/api/support/calculators?page=0x2'), status: 422, names: /page must be a whole number/, field: 'page' },
+  { name: 'support audit: NUL in the actor filter', handler: () => supportAuditGET, request: () => asStaff('/api/support/audit?actor=owner%00%40matrix.test'), status: 422, names: /e-mail contains a NUL/, field: 'actor' },
+  { name: 'support audit: NUL in the action and workspace filters', handler: () => supportAuditGET, request: () => asStaff('/api/support/audit?action=embed%00&workspace=Club%00'), status: 422, names: /action contains a NUL.*workspace contains a NUL/, field: 'workspace' },
+  { name: 'support: NUL in a disable reason', handler: () => supportDisablePOST, params: () => ({ id: String(w.embedId) }), request: () => asStaff(`/api/support/calculators/${w.embedId}/disable`, { json: { reason: `Spam${NUL} offers on the host page` } }), status: 422, names: /reason contains a NUL/, field: 'reason' },
+  { name: 'model: NUL in the name', handler: () => modelPATCH, params: () => ({ id: String(w.modelId) }), request: () => patchModel({ name: `Club riders${NUL}` }), status: 422, names: NUL_SAID, field: 'name' },
+  { name: 'model: unpaired surrogate in a cluster label', handler: () => modelPATCH, params: () => ({ id: String(w.modelId) }), request: () => patchModel({ clusters: ['Climbers', `Sprinters ${LONE}`, 'Tourers'].map((label) => ({ label, description: '', color: '#3a8a74' })) }), status: 422, names: LONE_SAID, field: 'clusters.1.label' },
+  { name: 'model: NUL in a field help text', handler: () => modelPATCH, params: () => ({ id: String(w.modelId) }), request: () => patchModel({ fields: FEATURES.map((f) => ({ feature: f, label: f, unit: 'km', min: 0, max: 500, help: `Your usual${NUL}` })) }), status: 422, names: NUL_SAID, field: 'fields.0.help' },
+  { name: 'model: unpaired surrogate in the caution', handler: () => modelPATCH, params: () => ({ id: String(w.modelId) }), request: () => patchModel({ caution: `Estimates only \udc00` }), status: 422, names: LONE_SAID, field: 'caution' },
+  { name: 'model from a fit: NUL in the name', handler: () => modelsPOST, request: () => model(0, { name: `From${NUL}fit` }), status: 422, names: NUL_SAID, field: 'name' },
+  { name: 'fit: NUL in a feature name', handler: () => fitsPOST, request: () => fit({ features: [`avg_speed_kmh${NUL}`, 'weekly_distance_km'] }), status: 422, names: NUL_SAID, field: 'features.0' },
+  { name: 'calculator: NUL in the title', handler: () => embedPATCH, params: () => ({ id: String(w.embedId) }), request: () => asOwner(`/api/embeds/${w.embedId}`, { method: 'PATCH', json: { title: `Which rider are you?${NUL}` } }), status: 422, names: /title contains a NUL/, field: 'title' },
+  { name: 'calculator: unpaired surrogate in the title', handler: () => embedPATCH, params: () => ({ id: String(w.embedId) }), request: () => asOwner(`/api/embeds/${w.embedId}`, { method: 'PATCH', json: { title: `Which rider ${LONE} are you?` } }), status: 422, names: LONE_SAID, field: 'title' },
+  { name: 'calculator: NUL in an allowed origin', handler: () => embedPATCH, params: () => ({ id: String(w.embedId) }), request: () => asOwner(`/api/embeds/${w.embedId}`, { method: 'PATCH', json: { allowedOrigins: [`https://club.example${NUL}.evil.test`] } }), status: 422, names: /allowedOrigins\.0|NUL/, field: 'allowedOrigins.0' },
+  { name: 'dataset: unpaired surrogate in the name', handler: () => datasetPATCH, params: () => ({ id: String(w.datasetId) }), request: () => asOwner(`/api/datasets/${w.datasetId}`, { method: 'PATCH', json: { name: `Summer rides ${LONE}` } }), status: 422, names: LONE_SAID, field: 'name' },
+  { name: 'dataset: NUL in a feature unit', handler: () => datasetPATCH, params: () => ({ id: String(w.datasetId) }), request: () => asOwner(`/api/datasets/${w.datasetId}`, { method: 'PATCH', json: { features: [{ name: 'avg_speed_kmh', displayName: 'Speed', unit: `km/h${NUL}`, inputMin: 0, inputMax: 80 }] } }), status: 422, names: NUL_SAID, field: 'features.0.unit' },
+  { name: 'upload: NUL in a text cell past the first 8 KB', handler: () => datasetsPOST, request: () => upload(lateNulCsv()), status: 422, names: /Row 252, column "rider" contains a NUL character/, field: 'row 252, column rider' },
+  { name: 'upload: NUL in the dataset name (?name=)', handler: () => datasetsPOST, request: () => asOwner(`/api/datasets?filename=t.csv&name=Rides%00`, { body: [HEADER, ...goodRows(12)].join('\n'), headers: { 'content-type': 'text/csv' } }), status: 422, names: /dataset name contains a NUL/, field: 'name' },
+  // (A lone surrogate cannot arrive in a file name: multipart and URLs carry UTF-8, which has none.)
+  { name: 'upload: NUL in the file name (?filename=)', handler: () => datasetsPOST, request: () => asOwner(`/api/datasets?filename=rides%00.csv`, { body: [HEADER, ...goodRows(12)].join('\n'), headers: { 'content-type': 'text/csv' } }), status: 422, names: /file name contains a NUL/, field: 'filename' },
+  { name: 'upload: NUL in the form name field', handler: () => datasetsPOST, request: () => { const f = new FormData(); f.set('file', new File([[HEADER, ...goodRows(12)].join('\n')], 'rides.csv', { type: 'text/csv' })); f.set('name', `Rides${NUL}`); return multipart(f); }, status: 422, names: NUL_SAID, field: 'name' },
+  { name: 'sign-up: NUL in the name', handler: () => signupPOST, request: () => signup({ name: `Robin${NUL}Rider`, email: 'robin.nul@club.test' }), status: 422, names: NUL_SAID, field: 'name' },
+  { name: 'sign-up: unpaired surrogate in the workspace name', handler: () => signupPOST, request: () => signup({ workspaceName: `Club ${LONE}`, email: 'robin.lone@club.test' }), status: 422, names: LONE_SAID, field: 'workspaceName' },
+  { name: 'workspace: NUL in a new workspace name', handler: () => workspacesPOST, request: () => asOwner('/api/workspaces', { json: { name: `Second club${NUL}` } }), status: 422, names: NUL_SAID, field: 'name' },
+  { name: 'reset: NUL in the token', handler: () => resetPOST, request: () => publicPost('/api/account/password/reset', { json: { token: `${'x'.repeat(20)}${NUL}${'x'.repeat(20)}`, password: 'a brand new password' } }), status: 422, names: /link contains a NUL/, field: 'token' },
+  // ---- odd input: /api addresses no route file has (app/api/[[...rest]]) ------------------
+  { name: 'unknown API address', handler: () => unknownApiGET, request: () => asOwner('/api/embeds/1/nope'), status: 404, names: /no API at this address/ },
+  { name: 'unknown API address, DELETE', handler: () => unknownApiDELETE, request: () => asOwner('/api/nothing-here', { method: 'DELETE', headers: { origin: 'https://evil.test' } }), status: 404, names: /no API at this address/ },
+  // Last: before the fix "12.0" deleted dataset 12, which would empty the cases above.
+  { name: 'id: trailing ".0" does not delete the dataset', handler: () => datasetDELETE, params: () => ({ id: `${smallDatasetId}.0` }), request: () => asOwner(`/api/datasets/${smallDatasetId}.0`, { method: 'DELETE' }), status: 422, names: /written in digits/, field: 'id' },
 ];
 
 beforeAll(async () => {

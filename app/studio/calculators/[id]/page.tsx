@@ -4,6 +4,7 @@ import { headers } from 'next/headers';
 import { notFound } from 'next/navigation';
 import { pageWorkspace } from '@/lib/auth/page';
 import { AppError } from '@/lib/errors';
+import { parseDecimalId } from '@/lib/http/ids';
 import { calculatorDetail, type CalculatorDetail } from '@/lib/embeds/studio-queries';
 import { SettingsForm } from '@/components/calculators/SettingsForm';
 import { SnippetBox } from '@/components/calculators/SnippetBox';
@@ -26,10 +27,12 @@ const escapeAttr = (s: string) => s.replace(/&/g, '&amp;').replace(/"/g, '&quot;
 
 export default async function CalculatorPage({ params }: { params: Promise<{ id: string }> }) {
   const { id } = await params;
+  // Decimal digits only: Number() would read "0x6" or "6e0" as 6.
+  const embedId = parseDecimalId(id) ?? notFound();
   const actor = await pageWorkspace('member', `/studio/calculators/${id}`);
   let detail: CalculatorDetail;
   try {
-    detail = await calculatorDetail(actor.workspace.id, Number(id) || 0);
+    detail = await calculatorDetail(actor.workspace.id, embedId);
   } catch (e) {
     if (e instanceof AppError && e.code === 'not_found') notFound();
     throw e;

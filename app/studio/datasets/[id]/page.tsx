@@ -3,6 +3,7 @@ import { notFound } from 'next/navigation';
 import type { Metadata } from 'next';
 import { pageWorkspace } from '@/lib/auth/page';
 import { AppError } from '@/lib/errors';
+import { parseDecimalId } from '@/lib/http/ids';
 import { findDataset } from '@/lib/datasets';
 import { FIT_DEFAULTS, MAX_COMPONENTS } from '@/lib/fitting/params';
 import { Fit } from '@/models';
@@ -19,9 +20,9 @@ export const dynamic = 'force-dynamic';
 
 export default async function DatasetPage({ params }: { params: Promise<{ id: string }> }) {
   const { id } = await params;
+  // Decimal digits only: Number() would read "0x6" or "6e0" as 6.
+  const datasetId = parseDecimalId(id) ?? notFound();
   const actor = await pageWorkspace('member', `/studio/datasets/${id}`);
-  const datasetId = Number(id);
-  if (!Number.isInteger(datasetId) || datasetId <= 0) notFound();
   const dataset = await findDataset(actor.workspace.id, datasetId).catch((e) => {
     if (e instanceof AppError && e.code === 'not_found') notFound();
     throw e;

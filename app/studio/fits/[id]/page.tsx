@@ -2,6 +2,7 @@ import { notFound } from 'next/navigation';
 import type { Metadata } from 'next';
 import { pageWorkspace } from '@/lib/auth/page';
 import { AppError } from '@/lib/errors';
+import { parseDecimalId } from '@/lib/http/ids';
 import { findFit } from '@/lib/fitting/jobs';
 import { fitView } from '@/lib/fitting/views';
 import { Dataset } from '@/models';
@@ -13,9 +14,9 @@ export const dynamic = 'force-dynamic';
 
 export default async function FitPage({ params }: { params: Promise<{ id: string }> }) {
   const { id } = await params;
+  // Decimal digits only: Number() would read "0x6" or "6e0" as 6.
+  const fitId = parseDecimalId(id) ?? notFound();
   const actor = await pageWorkspace('member', `/studio/fits/${id}`);
-  const fitId = Number(id);
-  if (!Number.isInteger(fitId) || fitId <= 0) notFound();
   const fit = await findFit(actor.workspace.id, fitId).catch((e) => {
     if (e instanceof AppError && e.code === 'not_found') notFound();
     throw e;

@@ -3,6 +3,7 @@ import { notFound } from 'next/navigation';
 import type { Metadata } from 'next';
 import { pageWorkspace } from '@/lib/auth/page';
 import { AppError } from '@/lib/errors';
+import { parseDecimalId } from '@/lib/http/ids';
 import { findModel } from '@/lib/fitting/models';
 import { Dataset } from '@/models';
 import { ModelEditor } from '@/components/studio/ModelEditor';
@@ -25,9 +26,9 @@ interface EngineModelShape {
 
 export default async function ModelPage({ params }: { params: Promise<{ id: string }> }) {
   const { id } = await params;
+  // Decimal digits only: Number() would read "0x6" or "6e0" as 6.
+  const modelId = parseDecimalId(id) ?? notFound();
   const actor = await pageWorkspace('member', `/studio/models/${id}`);
-  const modelId = Number(id);
-  if (!Number.isInteger(modelId) || modelId <= 0) notFound();
   const model = await findModel(actor.workspace.id, modelId).catch((e) => {
     if (e instanceof AppError && e.code === 'not_found') notFound();
     throw e;

@@ -12,6 +12,7 @@ import { SupportStatus } from '@/components/support/SupportStatus';
 import { UsageChart } from '@/components/support/UsageChart';
 import { REPORT_REASONS } from '@/lib/embeds/reports';
 import { AppError } from '@/lib/errors';
+import { parseDecimalId } from '@/lib/http/ids';
 import { calculatorDetail, type CalculatorDetail } from '@/lib/support';
 import { pageSupportActor } from '@/lib/support/page';
 
@@ -21,9 +22,9 @@ export const dynamic = 'force-dynamic';
 type Props = { params: Promise<{ id: string }> };
 
 async function load(id: string): Promise<CalculatorDetail> {
-  if (!/^\d{1,9}$/.test(id)) notFound();
+  const embedId = parseDecimalId(id) ?? notFound();
   try {
-    return await calculatorDetail(Number(id));
+    return await calculatorDetail(embedId);
   } catch (e) {
     if (e instanceof AppError && e.code === 'not_found') notFound();
     throw e;

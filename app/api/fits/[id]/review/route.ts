@@ -6,11 +6,12 @@ import { findFit } from '@/lib/fitting/jobs';
 import { reviewModel } from '@/lib/fitting/review';
 import { fitResult } from '@/lib/fitting/views';
 import { idParam, parseWith, readParams, route } from '@/lib/http/handler';
+import { decimalIndex } from '@/lib/http/ids';
 
 const query = z.object({
-  candidate: z.coerce.number().int().min(0).default(0),
-  x: z.coerce.number().int().min(0).optional(),
-  y: z.coerce.number().int().min(0).optional(),
+  candidate: decimalIndex().default(0),
+  x: decimalIndex().optional(),
+  y: decimalIndex().optional(),
 });
 
 /** Sizes, certainty, scatter sample and ellipses for one candidate of a finished fit. */

@@ -6,9 +6,10 @@ import { findModel } from '@/lib/fitting/models';
 import { reviewModel } from '@/lib/fitting/review';
 import { fitResult } from '@/lib/fitting/views';
 import { idParam, parseWith, readParams, route } from '@/lib/http/handler';
+import { decimalIndex } from '@/lib/http/ids';
 import { Dataset } from '@/models';
 
-const query = z.object({ x: z.coerce.number().int().min(0).optional(), y: z.coerce.number().int().min(0).optional() });
+const query = z.object({ x: decimalIndex().optional(), y: decimalIndex().optional() });
 
 /** The review of a named model on the dataset it was fitted to (while that dataset exists). */
 export const GET = route<{ params: Promise<{ id: string }> }>(async (request, { params }) => {
