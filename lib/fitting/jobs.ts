@@ -188,7 +188,8 @@ export function pumpFits(): void {
         state.again = false;
         while (state.active.size < fitSlots()) {
           const next = pickNextFit(await loadQueueSnapshot());
-          if (!next) break;
+          // A job of ours that just paused is queued a moment before its turn ends here; its end pumps again.
+          if (!next || state.active.has(next.id)) break;
           const now = new Date();
           // Claim by compare-and-set so two processes never run the same job; a resumed job keeps its first start.
           const [claimed] = await Fit.update(
@@ -346,15 +347,15 @@ async function runTurn(id: number, turnStartedAt: number): Promise<void> {
   const lastProgress = latest ? (view(latest) as unknown as Record<string, unknown>) : fit.progress;
   const cancelled = () => `Cancelled after ${(durationMs / 1000).toFixed(1)} s${latest ? `, during candidate ${latest.candidate + 1} of ${latest.candidates}` : ''}.`;
   if (outcome.kind === 'paused') {
-    const row = await Fit.findByPk(id, { attributes: ['cancelRequested'] });
-    if (!row || row.cancelRequested) return finish(id, { status: 'cancelled', error: cancelled(), progress: lastProgress });
     const kept: FitCheckpoint = { next: outcome.next, candidates: [...checkpoint.candidates, ...outcome.candidates], elapsedMs: durationMs };
     const progress: FitProgressView = { ...(latest ? view(latest) : { candidates, restarts: params.restarts, maxIter: params.maxIter, rows: matrix.n, updatedAt: '' }), phase: 'queued', paused: true, fitted: outcome.next, fraction: outcome.next / candidates, updatedAt: new Date().toISOString() };
     // Back in the queue under its old createdAt, so it stays first in line within its workspace.
-    await Fit.update(
+    const [queued] = await Fit.update(
       { status: 'queued', runnerId: null, lastTurnAt: new Date(), checkpoint: kept as unknown as Record<string, unknown>, progress: progress as unknown as Record<string, unknown> },
-      { where: { id, runnerId: runner().id, status: 'running' } },
+      { where: { id, runnerId: runner().id, status: 'running', cancelRequested: false } },
     );
+    // Not queued: cancelled in the meantime (or taken from this runner), so it ends as cancelled if still ours.
+    if (queued !== 1) return finish(id, { status: 'cancelled', error: cancelled(), progress: lastProgress });
     return;
   }
   if (outcome.kind === 'done') {
@@ -388,18 +389,20 @@ export async function findFit(workspaceId: number, id: number): Promise<Fit> {
 /** Ask a job to stop: a queued (or paused) job is cancelled at once, a running one at its next iteration. */
 export async function cancelFit(workspaceId: number, id: number): Promise<Fit> {
   const fit = await findFit(workspaceId, id);
-  if (fit.status === 'queued') {
-    const kept = fit.checkpoint as unknown as FitCheckpoint | null;
-    const candidates = (fit.progress as { candidates?: number } | null)?.candidates;
+  if (fit.status !== 'queued' && fit.status !== 'running') {
+    throw new AppError('conflict', `This fit has already ${fit.status === 'succeeded' ? 'finished' : fit.status === 'cancelled' ? 'been cancelled' : 'failed'}; there is nothing to cancel.`);
+  }
+  // The flag first: from here no runner claims it, and a running one stops at its next iteration.
+  await Fit.update({ cancelRequested: true }, { where: { id, status: ['queued', 'running'] } });
+  // Queued now (also a running fit that paused meanwhile): no runner will take it, so it ends here.
+  const row = (await Fit.findByPk(id))!;
+  if (row.status === 'queued') {
+    const kept = row.checkpoint as unknown as FitCheckpoint | null;
+    const candidates = (row.progress as { candidates?: number } | null)?.candidates;
     const error = kept ? `Cancelled while paused, after ${kept.next} of ${candidates ?? 'its'} candidates.` : 'Cancelled before it started.';
-    const [n] = await Fit.update({ status: 'cancelled', cancelRequested: true, error, checkpoint: null, finishedAt: new Date() }, { where: { id, status: 'queued' } });
-    if (n === 1) return (await Fit.findByPk(id))!;
+    await Fit.update({ status: 'cancelled', error, checkpoint: null, finishedAt: new Date() }, { where: { id, status: 'queued' } });
   }
-  if (fit.status === 'running' || fit.status === 'queued') {
-    await Fit.update({ cancelRequested: true }, { where: { id } });
-    return (await Fit.findByPk(id))!;
-  }
-  throw new AppError('conflict', `This fit has already ${fit.status === 'succeeded' ? 'finished' : fit.status === 'cancelled' ? 'been cancelled' : 'failed'}; there is nothing to cancel.`);
+  return (await Fit.findByPk(id))!;
 }
 
 /**
@@ -413,6 +416,8 @@ export async function recoverInterruptedFits(): Promise<number> {
     { where: { status: 'running', [Op.or]: [{ runnerId: { [Op.ne]: runner().id } }, { runnerId: null }] } },
   );
   if (failed) console.warn(`[partwise] ${failed} fit job(s) were interrupted by a restart and marked failed.`);
+  // A cancel that set its flag but not yet the status when the process stopped: no runner takes such a job.
+  await Fit.update({ status: 'cancelled', error: 'Cancelled before it started.', checkpoint: null, finishedAt: new Date() }, { where: { status: 'queued', cancelRequested: true } });
   pumpFits();
   return failed;
 }

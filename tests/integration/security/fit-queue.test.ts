@@ -227,6 +227,14 @@ describe('a paused fit in the database', () => {
     expect(stored.map((c: any) => [c.components, c.covariance, c.rank, c.bic])).toEqual(engine.candidates.map((c) => [c.components, c.covariance, c.rank, c.bic]));
   });
 
+  it('a waiting fit whose cancel was cut short by a restart ends cancelled instead of waiting for ever', async () => {
+    process.env.PARTWISE_FIT_SLOTS = '0';
+    const { fit } = await pausedRow(1);
+    await Fit.update({ cancelRequested: true }, { where: { id: fit.id } });
+    await recoverInterruptedFits();
+    expect((await Fit.findByPk(fit.id))!.status).toBe('cancelled');
+  });
+
   it('is cancelled at once, saying how far it had got', async () => {
     process.env.PARTWISE_FIT_SLOTS = '0';
     const { fit } = await pausedRow(1);
