@@ -59,6 +59,17 @@ export const ANSWER_GRACE = 0.05;
 /** Shares of the monthly answer limit at which the owner is e-mailed. */
 export const ANSWER_ALERT_THRESHOLDS = [0.8, 1] as const;
 
+/**
+ * Fits a workspace may have waiting or running at once (lib/fitting/jobs.ts counts
+ * and inserts in one transaction). Enough to compare a few settings side by side;
+ * a workspace cannot fill the shared fitting queue with its own work.
+ */
+export const FIT_QUEUE_LIMITS: Record<PlanId, number> = { sketch: 2, bench: 4, lab: 10 };
+
+export function fitQueueLimit(plan: PlanId): number {
+  return FIT_QUEUE_LIMITS[plan];
+}
+
 export function getPlan(id: string | null | undefined): Plan {
   return PLANS[(PLAN_IDS as readonly string[]).includes(id ?? '') ? (id as PlanId) : DEFAULT_PLAN];
 }

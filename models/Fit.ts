@@ -18,6 +18,10 @@ export class Fit extends Model<InferAttributes<Fit>, InferCreationAttributes<Fit
   /** Which server process runs it, so a restart can tell orphans from live jobs. */
   declare runnerId: CreationOptional<string | null>;
   declare startedAt: CreationOptional<Date | null>;
+  /** When it last started or ended a turn in a fitting slot; a workspace's latest orders the fair queue. */
+  declare lastTurnAt: CreationOptional<Date | null>;
+  /** A paused fit's candidates so far (lib/fitting/jobs.ts FitCheckpoint); null otherwise. */
+  declare checkpoint: CreationOptional<Record<string, unknown> | null>;
   declare finishedAt: CreationOptional<Date | null>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
@@ -37,6 +41,8 @@ export class Fit extends Model<InferAttributes<Fit>, InferCreationAttributes<Fit
         cancelRequested: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
         runnerId: { type: DataTypes.STRING(64), allowNull: true },
         startedAt: { type: DataTypes.DATE, allowNull: true },
+        lastTurnAt: { type: DataTypes.DATE, allowNull: true },
+        checkpoint: { type: DataTypes.JSON, allowNull: true },
         finishedAt: { type: DataTypes.DATE, allowNull: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,

@@ -12,9 +12,13 @@ export interface ProgressFit {
   status: string;
   error: string | null;
   cancelRequested: boolean;
+  /** Fits expected to start before this waiting one (0: next); null when not waiting. */
+  queuePosition?: number | null;
   startedAt: string | null;
   progress: {
     phase?: string;
+    paused?: boolean;
+    fitted?: number;
     candidate?: number;
     candidates?: number;
     components?: number;
@@ -29,6 +33,13 @@ export interface ProgressFit {
   } | null;
 }
 
+/** Where a waiting fit stands in the fitting queue. */
+function queueText(position: number | null | undefined): string {
+  if (position === null || position === undefined) return 'Waiting for a free fitting slot…';
+  if (position === 0) return 'Waiting: yours is next in line for a fitting slot.';
+  return `Waiting: ${position} fit${position === 1 ? '' : 's'} ahead of yours in line for a fitting slot.`;
+}
+
 /** Live state of a job: which candidate, restart and iteration, the log-likelihood, and a way to stop it. */
 export function FitProgressPanel({ fit, onChange }: { fit: ProgressFit; onChange: () => void }) {
   const [cancelling, setCancelling] = useState(false);
@@ -40,7 +51,8 @@ export function FitProgressPanel({ fit, onChange }: { fit: ProgressFit; onChange
       <div className="flex flex-wrap items-center gap-3">
         <FitStatusPill status={fit.status} />
         <p className="text-sm text-ink-soft" data-testid="fit-progress-text">
-          {fit.status === 'queued' && 'Waiting for a free fitting slot…'}
+          {fit.status === 'queued' && p.paused && `Paused after ${p.fitted} of ${p.candidates} candidates so a fit from another workspace could start; it carries on from there. `}
+          {fit.status === 'queued' && queueText(fit.queuePosition)}
           {fit.status === 'running' && p.phase !== 'fitting' && 'Starting…'}
           {fit.status === 'running' && p.phase === 'fitting' && (
             <>

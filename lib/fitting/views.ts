@@ -18,8 +18,12 @@ export function candidateSummaries(result: StoredFitResult): CandidateSummary[] 
   return result.candidates.map(({ model: _m, ...c }, index) => ({ ...c, index }));
 }
 
-/** JSON for the poll route and pages: status, progress, and (once done) the ranked candidates. */
-export function fitView(fit: Fit) {
+/**
+ * JSON for the poll route and pages: status, progress, and (once done) the ranked
+ * candidates. `queuePosition` (lib/fitting/queue.ts) is how many fits are expected to
+ * start before a waiting one: 0 means it is next; null when it is not waiting.
+ */
+export function fitView(fit: Fit, queuePosition: number | null = null) {
   const result = fitResult(fit);
   return {
     id: fit.id,
@@ -29,6 +33,7 @@ export function fitView(fit: Fit) {
     progress: fit.progress,
     error: fit.error,
     cancelRequested: fit.cancelRequested,
+    queuePosition: fit.status === 'queued' ? queuePosition : null,
     startedAt: fit.startedAt,
     finishedAt: fit.finishedAt,
     createdAt: fit.createdAt,

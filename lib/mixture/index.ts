@@ -16,7 +16,7 @@ export {
   type RestartSummary,
 } from './em';
 export type { InitMethod } from './init';
-export { selectMixture, selectMixtureWith, type Candidate, type CandidateProgress, type Selection, type SelectOptions } from './select';
+export { selectMixture, selectMixtureWith, candidateGrid, fitCandidate, rankCandidates, type GridEntry, type Candidate, type CandidateProgress, type Selection, type SelectOptions } from './select';
 export { fitScaler, type ScalerParams } from './scaler';
 export {
   scoreRow,

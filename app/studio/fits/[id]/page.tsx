@@ -4,6 +4,7 @@ import { pageWorkspace } from '@/lib/auth/page';
 import { AppError } from '@/lib/errors';
 import { parseDecimalId } from '@/lib/http/ids';
 import { findFit } from '@/lib/fitting/jobs';
+import { queuePositionOf } from '@/lib/fitting/queue';
 import { fitView } from '@/lib/fitting/views';
 import { Dataset } from '@/models';
 import { FitWorkbench } from '@/components/studio/FitWorkbench';
@@ -23,7 +24,7 @@ export default async function FitPage({ params }: { params: Promise<{ id: string
   });
   const dataset = await Dataset.findOne({ where: { id: fit.datasetId, workspaceId: actor.workspace.id }, attributes: ['id', 'name'] });
   const p = fit.params as { features?: string[]; minComponents?: number; maxComponents?: number; covariances?: string[]; restarts?: number; seed?: number; standardize?: boolean; rows?: number; dropped?: number };
-  const view = JSON.parse(JSON.stringify(fitView(fit)));
+  const view = JSON.parse(JSON.stringify(fitView(fit, await queuePositionOf(fit))));
   return (
     <StudioPage
       trail={[{ href: '/studio/datasets', label: 'Datasets' }, ...(dataset ? [{ href: `/studio/datasets/${dataset.id}`, label: dataset.name }] : [])]}
