@@ -48,7 +48,7 @@ async function workspaceOf(...members: User[]) {
 }
 
 async function accountStatus(cookie: string) {
-  const res = await accountRoute(new Request('http://localhost:3000/api/account', { headers: { cookie } }));
+  const res = await accountRoute(new Request('http://localhost:3000/api/account', { headers: { cookie } }), { params: Promise.resolve({}) });
   return res.status;
 }
 
@@ -95,7 +95,7 @@ describe('a cookie of an older session generation', () => {
     expect(await pageOutcome(phone)).toBe('page');
     expect(await renews(phone)).toBe(true);
 
-    const res = await sessionsRoute(await makeRequest('/api/account/sessions', { method: 'DELETE', headers: { cookie: laptop } }));
+    const res = await sessionsRoute(await makeRequest('/api/account/sessions', { method: 'DELETE', headers: { cookie: laptop } }), { params: Promise.resolve({}) });
     expect(res.status).toBe(200);
     const cleared = res.headers.getSetCookie().find((c) => c.startsWith(`${sessionCookieName()}=`));
     expect(cleared, 'this browser forgets its cookie').toMatch(/^[^=]+=;.*Max-Age=0/);
@@ -105,7 +105,7 @@ describe('a cookie of an older session generation', () => {
       expect(await accountStatus(old)).toBe(401);
       expect(await pageOutcome(old)).toBe('/signin?callbackUrl=%2Fstudio');
       expect(await renews(old), 'the session endpoint must not re-sign an ended session').toBe(false);
-      const team = await teamRoute(new Request('http://localhost:3000/api/team', { headers: { cookie: old } }));
+      const team = await teamRoute(new Request('http://localhost:3000/api/team', { headers: { cookie: old } }), { params: Promise.resolve({}) });
       expect(team.status).toBe(401);
     }
     // Signing in again (a cookie of the current generation) works; the other member was not touched.
@@ -122,7 +122,7 @@ describe('a cookie of an older session generation', () => {
     expect(await accountStatus(before)).toBe(200);
     const { token, hash } = newLinkToken();
     await AuthToken.create({ userId: user.id, purpose: 'reset-password', tokenHash: hash, expiresAt: new Date(Date.now() + 3600_000) });
-    const res = await resetRoute(await makeRequest('/api/account/password/reset', { json: { token, password: 'gravel-harbour-cadence-1987' } }));
+    const res = await resetRoute(await makeRequest('/api/account/password/reset', { json: { token, password: 'gravel-harbour-cadence-1987' } }), { params: Promise.resolve({}) });
     expect(res.status).toBe(200);
     expect(await accountStatus(before)).toBe(401);
     expect(await pageOutcome(before)).toMatch(/^\/signin/);

@@ -22,7 +22,7 @@ afterEach(() => {
   fs.rmSync(dir, { recursive: true, force: true });
   for (const k of ['NEXTAUTH_SECRET', 'AUTH_SECRET', 'PARTWISE_LOCAL', 'PARTWISE_DATA_DIR', 'DATABASE_URL', 'NEXT_PHASE', 'NODE_ENV']) {
     if (saved[k] === undefined) delete process.env[k];
-    else process.env[k] = saved[k];
+    else (process.env as Record<string, string | undefined>)[k] = saved[k];
   }
 });
 
@@ -110,7 +110,7 @@ describe('authSecret', () => {
     delete process.env.AUTH_SECRET;
     delete process.env.PARTWISE_LOCAL;
     for (const nodeEnv of ['production', 'development', 'test']) {
-      process.env.NODE_ENV = nodeEnv;
+      (process.env as Record<string, string>).NODE_ENV = nodeEnv;
       expect(() => authSecret()).toThrow(/NEXTAUTH_SECRET is not set/);
     }
     process.env.NEXT_PHASE = 'phase-production-build';
