@@ -16,7 +16,7 @@ export const MIN_SECRET_LENGTH = 32;
 export class LocalSecretError extends Error {}
 
 export function localSecretPath(env: Record<string, string | undefined> = process.env): string {
-  return path.resolve(env.PARTWISE_DATA_DIR || 'data', LOCAL_SECRET_FILE);
+  return path.resolve(/*turbopackIgnore: true*/ env.PARTWISE_DATA_DIR || 'data', LOCAL_SECRET_FILE);
 }
 
 /** Read the file and check it is ours, a regular file, owner-only and long enough; throws LocalSecretError otherwise. */
@@ -24,7 +24,7 @@ export function readLocalSecret(file: string = localSecretPath()): string {
   let fd: number;
   try {
     // O_NOFOLLOW: a symlink planted in the data directory is refused, not followed.
-    fd = fs.openSync(file, fs.constants.O_RDONLY | fs.constants.O_NOFOLLOW);
+    fd = fs.openSync(/*turbopackIgnore: true*/ file, fs.constants.O_RDONLY | fs.constants.O_NOFOLLOW);
   } catch (e) {
     const code = (e as NodeJS.ErrnoException).code;
     if (code === 'ENOENT') throw new LocalSecretError(`the local session secret ${file} does not exist.`);
