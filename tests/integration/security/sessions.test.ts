@@ -18,6 +18,7 @@ import { authSecret } from '@/lib/auth/secret';
 import { sessionCookieName } from '@/lib/auth/cookies';
 import { SESSION_ABSOLUTE_MAX_S, SESSION_MAX_AGE_S } from '@/lib/auth/sessions';
 import { newLinkToken } from '@/lib/accounts/tokens';
+import { addStaff } from '@/lib/accounts/staff';
 import { AuditEvent, AuthToken, Membership, User, Workspace } from '@/models';
 import { makeRequest, sessionCookie } from '../../helpers/auth';
 
@@ -127,6 +128,15 @@ describe('a cookie of an older session generation', () => {
     expect(await accountStatus(before)).toBe(401);
     expect(await pageOutcome(before)).toMatch(/^\/signin/);
     expect(await accountStatus(await sessionCookie(user.id))).toBe(200);
+  });
+
+  it('is refused after a staff account gets a new password from the command line (staff:add)', async () => {
+    const { user } = await addStaff('desk@sessions.test', { password: 'first-desk-password-2026' });
+    const before = await sessionCookie(user.id);
+    expect(await pageOutcome(before, 'staff')).toBe('page');
+    await addStaff('desk@sessions.test', { password: 'second-desk-password-2026' });
+    expect(await accountStatus(before)).toBe(401);
+    expect(await pageOutcome(before, 'staff')).toBe('/signin?callbackUrl=%2Fsupport');
   });
 
   it("is refused for a suspended workspace's members; staff and other workspaces keep theirs", async () => {
