@@ -3,7 +3,7 @@ import CredentialsProvider from 'next-auth/providers/credentials';
 import { authorizeCredentials } from './credentials';
 import { authSecret } from './secret';
 import { useSecureCookies } from './cookies';
-import { SESSION_MAX_AGE_S, signInClaims, userOfSession } from './sessions';
+import { SESSION_MAX_AGE_S, SessionEndedError, signInClaims, userOfSession } from './sessions';
 
 /**
  * next-auth with e-mail and password. Sessions are signed JWT cookies (httpOnly,
@@ -26,6 +26,13 @@ export const authOptions: NextAuthOptions = {
   jwt: { maxAge: SESSION_MAX_AGE_S },
   useSecureCookies: useSecureCookies(),
   pages: { signIn: '/signin', error: '/signin' },
+  logger: {
+    // An ended session asking for renewal is routine (signed out everywhere); other errors are logged as next-auth would.
+    error(code, metadata) {
+      if (metadata instanceof SessionEndedError) return;
+      console.error(`[next-auth][error][${code}]`, metadata);
+    },
+  },
   providers: [
     CredentialsProvider({
       name: 'E-mail and password',
@@ -39,7 +46,7 @@ export const authOptions: NextAuthOptions = {
       if (user) return { ...token, ...signInClaims({ id: Number(user.id), sessionGeneration: Number((user as { sessionGeneration?: number }).sessionGeneration ?? 0) }) };
       // A renewal (the session endpoint): only a session that has not ended is signed again;
       // throwing makes next-auth clear the cookie.
-      if (!(await userOfSession(token))) throw new Error('This session has ended; sign in again.');
+      if (!(await userOfSession(token))) throw new SessionEndedError();
       return token;
     },
     async session({ session, token }) {

@@ -15,6 +15,13 @@ import { SESSION_ABSOLUTE_MAX_S } from './session-times';
  */
 export { SESSION_ABSOLUTE_MAX_S, SESSION_MAX_AGE_S, SESSION_RENEW_EVERY_MS } from './session-times';
 
+/** Thrown by the renewal of an ended session; next-auth then clears the cookie (not worth an error log). */
+export class SessionEndedError extends Error {
+  constructor() {
+    super('This session has ended; sign in again.');
+  }
+}
+
 /** A decoded session JWT (next-auth's JWT type is an open record). */
 export type SessionClaims = Record<string, unknown>;
 
