@@ -8,6 +8,8 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   declare emailVerifiedAt: CreationOptional<Date | null>;
   /** Partwise support staff; created only from the command line. */
   declare isStaff: CreationOptional<boolean>;
+  /** Sessions signed in under an older generation are refused (lib/auth/sessions.ts). */
+  declare sessionGeneration: CreationOptional<number>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -20,6 +22,7 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
         passwordHash: { type: DataTypes.STRING(100), allowNull: false },
         emailVerifiedAt: { type: DataTypes.DATE, allowNull: true },
         isStaff: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
+        sessionGeneration: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

@@ -2,6 +2,7 @@ import fs from 'node:fs';
 import http from 'node:http';
 import path from 'node:path';
 import zlib from 'node:zlib';
+import { randomBytes } from 'node:crypto';
 import type { ChildProcess } from 'node:child_process';
 import autocannon from 'autocannon';
 import { buildIsStale } from './lib/build-state';
@@ -165,7 +166,7 @@ async function main() {
     DATABASE_URL: path.join(DIR, 'bench.sqlite'),
     PARTWISE_DATA_DIR: DIR,
     NEXTAUTH_URL: APP,
-    NEXTAUTH_SECRET: 'bench-embed-secret-not-for-production',
+    NEXTAUTH_SECRET: randomBytes(32).toString('base64url'),
     // One loopback client stands for many visitors: lift the per-address and per-token limits.
     PARTWISE_SCORE_ADDRESS_BURST: '1000000000',
     PARTWISE_SCORE_TOKEN_BURST: '1000000000',

@@ -1,6 +1,7 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { spawn, type ChildProcess } from 'node:child_process';
+import { randomBytes } from 'node:crypto';
 import autocannon from 'autocannon';
 import { buildIsStale } from './lib/build-state';
 import { spawnAppServer } from './lib/app-process';
@@ -110,7 +111,7 @@ async function main() {
     DATABASE_URL: path.join(DIR, 'partwise.sqlite'),
     PARTWISE_DATA_DIR: DIR,
     NEXTAUTH_URL: APP,
-    NEXTAUTH_SECRET: process.env.NEXTAUTH_SECRET ?? 'bench-load-secret-not-for-production',
+    NEXTAUTH_SECRET: process.env.NEXTAUTH_SECRET || randomBytes(32).toString('base64url'),
     // The rate limits protect calculators from one noisy visitor; one load generator is that visitor.
     PARTWISE_SCORE_ADDRESS_BURST: '100000000',
     PARTWISE_SCORE_TOKEN_BURST: '100000000',

@@ -37,12 +37,12 @@ async function main() {
   if (process.env.PARTWISE_SKIP_SEED !== '1') await seedDemo();
 
   const services = await startServices({ dataDir, appUrl });
-  const env: NodeJS.ProcessEnv = { ...process.env, NEXT_TELEMETRY_DISABLED: '1', NEXTAUTH_URL: appUrl, PORT: port };
+  const env: NodeJS.ProcessEnv = { ...process.env, NEXT_TELEMETRY_DISABLED: '1', NEXTAUTH_URL: appUrl, PORT: port, PARTWISE_DATA_DIR: dataDir };
   for (const s of services) Object.assign(env, s.env);
-  if (!env.NEXTAUTH_SECRET) {
-    // A local demo run: sessions are signed with a secret derived from the database path.
+  if (!env.NEXTAUTH_SECRET && !env.AUTH_SECRET) {
+    // A local demo run: the app server signs sessions with a random secret it keeps in the data directory.
     env.PARTWISE_LOCAL = '1';
-    console.warn('[partwise] NEXTAUTH_SECRET is not set; using a local-only secret. Set it for any real deployment.');
+    console.warn(`[partwise] NEXTAUTH_SECRET is not set: this is a local run (sessions signed with the random secret in ${path.join(dataDir, 'session-secret')}, demo mail page on). Set NEXTAUTH_SECRET for any real deployment.`);
   }
 
   if (!dev && (buildIsStale() || process.env.PARTWISE_FORCE_BUILD === '1')) {

@@ -1,6 +1,7 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { spawn } from 'node:child_process';
+import { randomBytes } from 'node:crypto';
 import { buildIsStale } from './lib/build-state';
 import { ensureChromium } from './lib/ensure-chromium';
 import { spawnAppServer } from './lib/app-process';
@@ -34,7 +35,8 @@ async function main() {
     DATABASE_URL: path.join(STACK_DIR, 'partwise.sqlite'),
     PARTWISE_DATA_DIR: STACK_DIR,
     NEXTAUTH_URL: appUrl,
-    NEXTAUTH_SECRET: process.env.NEXTAUTH_SECRET ?? 'test-stack-secret-not-for-production',
+    // A fresh random secret per run: the stack runs as a deployment, which refuses published secrets.
+    NEXTAUTH_SECRET: process.env.NEXTAUTH_SECRET || randomBytes(32).toString('base64url'),
     // The local mail page (/dev/mail) lists what the SMTP fake received.
     PARTWISE_DEV_MAIL: '1',
     PORT,

@@ -4,6 +4,7 @@ import { recordAudit } from '@/lib/audit';
 import { enqueueMail } from '@/lib/mail';
 import { appLink, passwordResetMail } from '@/lib/mail/templates';
 import { resetLimit, takeToken } from '@/lib/rate-limit';
+import { endSessions } from '@/lib/auth/sessions';
 import { AuthToken, User, sequelize } from '@/models';
 import { HOUR, hashToken, newLinkToken } from './tokens';
 import { ACCOUNT_LIMITS, addressKey, limitOrThrow } from './limits';
@@ -39,6 +40,8 @@ export async function resetPassword(token: string, password: string, request?: R
     const [claimed] = await AuthToken.update({ usedAt: new Date() }, { where: { id: row.id, usedAt: null }, transaction });
     if (claimed !== 1) throw new AppError('not_found', 'This reset link was already used. Ask for a new one.');
     await user.update({ passwordHash, emailVerifiedAt: user.emailVerifiedAt ?? new Date() }, { transaction });
+    // Whoever knew the old password may hold a session: a reset ends them all.
+    await endSessions([user.id], transaction);
   });
   // A successful reset lifts the failed sign-in lock on the account.
   resetLimit(`signin:account:${user.email}`);

@@ -3,6 +3,7 @@ import { randomBytes } from 'node:crypto';
 import { email as emailSchema, password as passwordSchema } from './schemas';
 import { Membership, User } from '@/models';
 import { BCRYPT_ROUNDS } from './signup';
+import { endSessions } from '@/lib/auth/sessions';
 
 /**
  * Staff accounts come only from the command line (`npm run staff:add -- email`).
@@ -20,6 +21,8 @@ export async function addStaff(rawEmail: string, opts: { password?: string; name
   }
   if (existing) {
     await existing.update({ passwordHash, emailVerifiedAt: existing.emailVerifiedAt ?? new Date() });
+    // A new password for a staff account ends its sessions, as a reset does.
+    await endSessions([existing.id]);
     return { user: existing, password, created: false };
   }
   const user = await User.create({ email, name: opts.name ?? 'Partwise support', passwordHash, isStaff: true, emailVerifiedAt: new Date() });

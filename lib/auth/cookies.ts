@@ -31,3 +31,8 @@ export function sessionCookieName(): string {
 export function workspaceCookieHeader(workspaceId: number): string {
   return `${WORKSPACE_COOKIE}=${workspaceId}; Path=/; HttpOnly; SameSite=Lax; Max-Age=${365 * 24 * 3600}${useSecureCookies() ? '; Secure' : ''}`;
 }
+
+/** Set-Cookie value that removes the session cookie from this browser. */
+export function clearSessionCookieHeader(): string {
+  return `${sessionCookieName()}=; Path=/; HttpOnly; SameSite=Lax; Max-Age=0; Expires=Thu, 01 Jan 1970 00:00:00 GMT${useSecureCookies() ? '; Secure' : ''}`;
+}

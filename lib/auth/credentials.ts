@@ -29,7 +29,7 @@ function asRequest(headers: HeaderBag | undefined): Request {
   return new Request('http://signin.local/', { headers: h });
 }
 
-export async function authorizeCredentials(raw: unknown, headers?: HeaderBag): Promise<{ id: string; email: string; name: string } | null> {
+export async function authorizeCredentials(raw: unknown, headers?: HeaderBag): Promise<{ id: string; email: string; name: string; sessionGeneration: number } | null> {
   const parsed = signInSchema.safeParse(raw);
   if (!parsed.success) return null;
   const { email, password } = parsed.data;
@@ -54,5 +54,6 @@ export async function authorizeCredentials(raw: unknown, headers?: HeaderBag): P
   if (!user.emailVerifiedAt) throw new Error(SIGNIN_ERRORS.unverified);
   resetLimit(accountKey);
   await recordAudit({ action: 'auth.signin', actor: { id: user.id, email: user.email }, targetType: 'user', targetId: user.id, request });
-  return { id: String(user.id), email: user.email, name: user.name };
+  // The generation goes into the new session's JWT (lib/auth/sessions.ts).
+  return { id: String(user.id), email: user.email, name: user.name, sessionGeneration: user.sessionGeneration };
 }

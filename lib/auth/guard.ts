@@ -2,15 +2,17 @@ import { getToken } from 'next-auth/jwt';
 import { AppError } from '@/lib/errors';
 import { parseDecimalId } from '@/lib/http/ids';
 import { ensureMailRetryTimer } from '@/lib/mail';
-import { Membership, User, Workspace, type WorkspaceRole } from '@/models';
+import { Membership, Workspace, type User, type WorkspaceRole } from '@/models';
 import { parseCookies, sessionCookieName, WORKSPACE_COOKIE } from './cookies';
 import { authSecret } from './secret';
+import { userOfSession } from './sessions';
 
 /**
  * The one place that checks roles. Every route handler, server action and signed-in
  * page calls one of the `require…` functions; they read the signed session cookie,
- * then the user and membership from the database (never trusting a role in the
- * cookie), and throw AppError 401/403 otherwise.
+ * check its session generation against the user's (lib/auth/sessions.ts), then the
+ * user and membership from the database (never trusting a role in the cookie), and
+ * throw AppError 401/403 otherwise.
  */
 export interface Actor {
   user: User;
@@ -34,9 +36,9 @@ export async function readActor(request: Request): Promise<Actor | null> {
     secret: authSecret(),
     cookieName: sessionCookieName(),
   });
-  const uid = Number(token?.uid);
-  if (!Number.isInteger(uid) || uid <= 0) return null;
-  const user = await User.findByPk(uid);
+  // A cookie of an ended session (older generation: signed out everywhere, password
+  // reset, workspace suspended) counts as no cookie.
+  const user = await userOfSession(token);
   if (!user) return null;
   return { user, isStaff: user.isStaff };
 }

@@ -1,16 +1,22 @@
-import { createHash } from 'node:crypto';
+import { localSecretPath, readLocalSecret } from './local-secret';
 
 /**
- * The secret that signs session cookies. Production must set NEXTAUTH_SECRET; local
- * runs derive a stable one from the database path so restarts keep people signed in.
+ * The secret that signs session cookies: NEXTAUTH_SECRET when set (a deployment must
+ * set it; the server refuses to start otherwise, see lib/server/settings.ts). A local
+ * run (PARTWISE_LOCAL=1, `npm start` without a secret) reads the random secret the
+ * app server made in the data directory (lib/auth/local-secret.ts). There is no
+ * fallback: nothing derived from public values, and no placeholder, ever signs a session.
  */
+let local: { file: string; secret: string } | undefined;
+
 export function authSecret(): string {
-  const configured = process.env.NEXTAUTH_SECRET ?? process.env.AUTH_SECRET;
+  const configured = process.env.NEXTAUTH_SECRET || process.env.AUTH_SECRET;
   if (configured) return configured;
-  // `next build` evaluates route modules; nothing is signed at build time.
-  if (process.env.NEXT_PHASE === 'phase-production-build') return 'build-phase-placeholder';
-  if (process.env.NODE_ENV === 'production' && process.env.PARTWISE_LOCAL !== '1') {
-    throw new Error('NEXTAUTH_SECRET must be set in production (a long random string).');
+  if (process.env.PARTWISE_LOCAL === '1') {
+    const file = localSecretPath();
+    // Read once per process: the server checked the file before it listened.
+    if (local?.file !== file) local = { file, secret: readLocalSecret(file) };
+    return local.secret;
   }
-  return createHash('sha256').update(`partwise-local:${process.env.DATABASE_URL ?? 'data/partwise.sqlite'}`).digest('hex');
+  throw new Error('NEXTAUTH_SECRET is not set: sessions cannot be signed. Set it to a long random string, or run `npm start` for a local run.');
 }

@@ -3,6 +3,7 @@ import { flushUsage, pendingAnswers } from '@/lib/usage';
 import { settleForwarding, trustsProxy } from './forwarding';
 import { productionSettingProblems } from './settings';
 import { jsonForBareApiErrors, settleMalformedPath } from './odd-requests';
+import { ensureLocalSecret, localSecretPath } from '@/lib/auth/local-secret';
 import { answerScore, scoringToken } from './score-fast-path';
 
 /**
@@ -18,6 +19,7 @@ export interface AppServerOptions {
 }
 
 export async function startAppServer({ port, host, dev = false }: AppServerOptions): Promise<http.Server> {
+  prepareLocalSecret();
   const problems = dev ? [] : productionSettingProblems();
   if (problems.length) {
     throw new Error(`the production server is not configured:\n${problems.map((p) => `  - ${p}`).join('\n')}`);
@@ -69,4 +71,13 @@ export async function startAppServer({ port, host, dev = false }: AppServerOptio
   process.on('SIGTERM', () => void stop('SIGTERM'));
   process.on('SIGINT', () => void stop('SIGINT'));
   return server;
+}
+
+/** A local run without NEXTAUTH_SECRET signs sessions with the random secret file of its data directory; make it on the first run. */
+function prepareLocalSecret() {
+  if (process.env.PARTWISE_LOCAL !== '1' || process.env.NEXTAUTH_SECRET || process.env.AUTH_SECRET) return;
+  const file = localSecretPath();
+  const { action, reason } = ensureLocalSecret(file);
+  if (action === 'created') console.log(`[partwise] local run: made a random session secret in ${file} (owner-only).`);
+  if (action === 'replaced') console.warn(`[partwise] local run: ${reason} A new secret replaced it; everyone signs in again.`);
 }

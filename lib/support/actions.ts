@@ -1,6 +1,7 @@
 import { Op } from 'sequelize';
 import { recordAudit } from '@/lib/audit';
 import { AppError } from '@/lib/errors';
+import { endWorkspaceSessions } from '@/lib/auth/sessions';
 import { invalidateEmbed, invalidateWorkspace } from '@/lib/scoring';
 import { AbuseReport, Embed, Workspace, sequelize } from '@/models';
 import { notifyOwners } from './notify';
@@ -69,9 +70,11 @@ export async function suspendWorkspace(acting: StaffActing, workspaceId: number,
   const [changed] = await Workspace.update({ suspendedAt: new Date(), suspendedReason: input.reason }, { where: { id: workspace.id, suspendedAt: null } });
   if (changed !== 1) throw new AppError('conflict', 'This workspace changed meanwhile; reload and try again.');
   invalidateWorkspace(workspace.id);
+  // A suspended workspace's members are signed out everywhere (a misused account may be one of them); they can sign in again.
+  const sessionsEnded = (await endWorkspaceSessions(workspace.id)).length;
   await workspace.reload();
   const calculators = await Embed.count({ where: { workspaceId: workspace.id, status: { [Op.ne]: 'retired' } } });
-  await recordAudit({ action: 'support.workspace_suspended', actor: acting.user, workspaceId: workspace.id, targetType: 'workspace', targetId: workspace.id, detail: { name: workspace.name, reason: input.reason, calculators }, request: acting.request });
+  await recordAudit({ action: 'support.workspace_suspended', actor: acting.user, workspaceId: workspace.id, targetType: 'workspace', targetId: workspace.id, detail: { name: workspace.name, reason: input.reason, calculators, sessionsEnded }, request: acting.request });
   const notified = await notifyOwners(workspace.id, { kind: 'workspace-suspended', workspaceName: workspace.name, reason: input.reason });
   return { workspace, notified };
 }

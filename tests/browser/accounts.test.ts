@@ -91,7 +91,7 @@ describe('accounts in the browser', () => {
 
   it('a member sees the team without owner controls; owner pages send them back', async () => {
     await page.locator('summary').filter({ hasText: 'Ada Rider' }).click();
-    await page.getByRole('button', { name: 'Sign out' }).click();
+    await page.getByRole('button', { name: 'Sign out', exact: true }).click();
     await page.waitForURL(appUrl('/'));
     await page.goto(appUrl('/signin?callbackUrl=%2Fstudio%2Fteam'));
     await page.getByLabel('E-mail').fill(DEMO_USERS.member.email);

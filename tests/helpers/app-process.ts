@@ -1,6 +1,7 @@
 import fs from 'node:fs';
 import net from 'node:net';
 import path from 'node:path';
+import { randomBytes } from 'node:crypto';
 import type { ChildProcess } from 'node:child_process';
 import { spawnAppServer } from '../../scripts/lib/app-process';
 import { run, waitForHttp } from '../../scripts/lib/run';
@@ -23,7 +24,8 @@ export interface AppProcess {
   restart(): Promise<AppProcess>;
 }
 
-export const SYSTEM_SECRET = 'system-test-secret-0123456789-abcdef';
+/** Random per test process: the servers run as deployments, which refuse secrets published in the source. */
+export const SYSTEM_SECRET = randomBytes(32).toString('base64url');
 
 export function freePort(): Promise<number> {
   return new Promise((resolve, reject) => {

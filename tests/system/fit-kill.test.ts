@@ -43,12 +43,12 @@ beforeAll(async () => {
   const { dir, env } = await prepareDatabase('fit-kill');
   app = await startApp(dir, env);
   process.env.NEXTAUTH_SECRET = SYSTEM_SECRET;
-  const [analyst] = await query<{ id: number }>(`SELECT id FROM users WHERE email = '${DEMO_USERS.member.email}'`);
+  const [analyst] = await query<{ id: number; session_generation: number }>(`SELECT id, session_generation FROM users WHERE email = '${DEMO_USERS.member.email}'`);
   const [dataset] = await query<{ id: number; workspace_id: number; columns: string }>('SELECT id, workspace_id, columns FROM datasets ORDER BY id LIMIT 1');
   datasetId = dataset.id;
   features = (JSON.parse(dataset.columns) as { name: string; kind: string }[]).filter((c) => c.kind === 'numeric').map((c) => c.name).slice(0, 3);
   const { sessionCookie } = await import('../helpers/auth');
-  cookie = await sessionCookie(analyst.id, dataset.workspace_id);
+  cookie = await sessionCookie(analyst.id, dataset.workspace_id, { generation: analyst.session_generation });
 });
 
 afterAll(async () => {

@@ -1,8 +1,14 @@
 import path from 'node:path';
+import { KNOWN_PAYMENT_KEYS, KNOWN_WEBHOOK_SECRETS, isKnownSecret } from '@/lib/server/known-secrets';
 import { startPaymentsFake } from './server';
 
 /** The payment-service fake as an `npm start` / `npm test` service (see scripts/services.ts). */
 export const WEBHOOK_ROUTE = '/api/webhooks/payments';
+
+/** A key from the environment of the right kind, never one published in the source; undefined = random. */
+function ownKey(value: string | undefined, prefix: string, known: readonly string[]): string | undefined {
+  return value?.startsWith(prefix) && !isKnownSecret(known, value) ? value : undefined;
+}
 
 export const paymentsService = {
   name: 'payments',
@@ -11,9 +17,10 @@ export const paymentsService = {
     if (process.env.PAYMENTS_FAKE === '0') return { name: 'payments', env: {}, stop: async () => undefined };
     const fake = await startPaymentsFake({
       port: Number(process.env.PAYMENTS_FAKE_PORT ?? 0),
-      // Stable keys across restarts of `npm start`, so the records in the state file stay usable.
-      secretKey: process.env.STRIPE_SECRET_KEY?.startsWith('sk_test_') ? process.env.STRIPE_SECRET_KEY : 'sk_test_partwise_local_fake',
-      webhookSecret: process.env.STRIPE_WEBHOOK_SECRET?.startsWith('whsec_') ? process.env.STRIPE_WEBHOOK_SECRET : 'whsec_partwise_local_fake_signing_secret',
+      // New random keys each start unless the environment brings its own test keys: the app
+      // gets them from fake.env() at every start, and the state file holds no key.
+      secretKey: ownKey(process.env.STRIPE_SECRET_KEY, 'sk_test_', KNOWN_PAYMENT_KEYS),
+      webhookSecret: ownKey(process.env.STRIPE_WEBHOOK_SECRET, 'whsec_', KNOWN_WEBHOOK_SECRETS),
       webhookUrl: new URL(WEBHOOK_ROUTE, appUrl).toString(),
       stateFile: path.join(dataDir, 'payments-fake.json'),
       retryBaseMs: 2000,

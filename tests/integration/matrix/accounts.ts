@@ -12,6 +12,7 @@ const everyone = (status: number) => ({ visitor: status, member: status, owner: 
 
 export const rows: MatrixRow[] = [
   { file: 'app/api/account/route.ts', method: 'GET', url: () => '/api/account', expect: { ...everyone(200), visitor: 401 } },
+  { file: 'app/api/account/sessions/route.ts', method: 'DELETE', url: () => '/api/account/sessions', expect: { ...everyone(200), visitor: 401 }, note: 'signs the caller out everywhere; the next request signs in again' },
   {
     file: 'app/api/account/signup/route.ts',
     method: 'POST',
