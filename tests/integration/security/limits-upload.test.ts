@@ -12,6 +12,7 @@ import { POST as publishRoute } from '@/app/api/embeds/route';
 import { POST as inviteRoute } from '@/app/api/team/invitations/route';
 import { POST as scoreRoute } from '@/app/api/score/[token]/route';
 import { POST as webhookRoute } from '@/app/api/webhooks/payments/route';
+import { POST as authRoute } from '@/app/api/auth/[...nextauth]/route';
 import { assertRowsAllowed } from '@/lib/billing/limits';
 import { MAX_SCORE_BODY_BYTES } from '@/lib/scoring';
 import { MULTIPART_ALLOWANCE_BYTES } from '@/lib/datasets/upload';
@@ -19,6 +20,8 @@ import { PLANS } from '@/lib/plans';
 import { makeRequest, sessionCookie } from '../../helpers/auth';
 import { modelWorkspace } from '../embeds/fixtures';
 
+// The auth route's cap (a route file may export only handlers).
+const MAX_AUTH_BODY_BYTES = 16 * 1024;
 const CHUNK = 64 * 1024;
 const MB = 1024 * 1024;
 const noParams = { params: Promise.resolve({}) };
@@ -199,5 +202,15 @@ describe('JSON bodies stream with their cap', () => {
     expect(res.status).toBe(413);
     expect(state.cancelled).toBe(true);
     expect(state.produced).toBeLessThanOrEqual(512 * 1024 + CHUNK);
+  });
+
+  it('the sign-in form (next-auth, public): a chunked body is cut off past 16 KB before next-auth reads it', async () => {
+    const { stream, state } = endlessBody(20 * MB, { head: new TextEncoder().encode('email='), fill: 0x61 });
+    const req = await streamingRequest('/api/auth/callback/credentials', stream, { headers: { 'content-type': 'application/x-www-form-urlencoded' } });
+    const res = await authRoute(req as never, { params: Promise.resolve({ nextauth: ['callback', 'credentials'] }) });
+    expect(res.status).toBe(413);
+    expect((await res.json()).error.message).toBe(`The body is larger than ${MAX_AUTH_BODY_BYTES} bytes.`);
+    expect(state.cancelled).toBe(true);
+    expect(state.produced).toBeLessThanOrEqual(MAX_AUTH_BODY_BYTES + CHUNK);
   });
 });
