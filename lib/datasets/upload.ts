@@ -21,7 +21,8 @@ const RAW_TYPES = ['text/csv', 'text/plain', 'text/tab-separated-values', 'appli
  * and a body without one (chunked) is cut off at the first chunk past it (413).
  */
 export async function readUpload(request: Request, workspaceId: number): Promise<UploadedFile> {
-  const type = (request.headers.get('content-type') ?? '').toLowerCase();
+  const contentType = request.headers.get('content-type') ?? '';
+  const type = contentType.toLowerCase();
   const multipart = type.startsWith('multipart/form-data');
   if (!multipart && !RAW_TYPES.some((t) => type.startsWith(t))) {
     await discardBody(request.body);
@@ -43,7 +44,8 @@ export async function readUpload(request: Request, workspaceId: number): Promise
   let form: FormData;
   try {
     // The bytes read are within the cap; the form parser only ever sees those.
-    form = await new Response(body as BodyInit, { headers: { 'content-type': type } }).formData();
+    // The header as sent: the multipart boundary is case-sensitive.
+    form = await new Response(body as BodyInit, { headers: { 'content-type': contentType } }).formData();
   } catch {
     throw new AppError('bad_request', 'The upload could not be read as a form; send the file in a field named "file".');
   }

@@ -97,6 +97,26 @@ describe('dataset upload, streamed with the plan cap', () => {
     expect(state.produced).toBeLessThanOrEqual(sketchCap + MULTIPART_ALLOWANCE_BYTES + CHUNK);
   });
 
+  it('a multipart upload as a browser frames it (mixed-case boundary) is read and stored', async () => {
+    const boundary = '----WebKitFormBoundaryQx7TzK2mLp9Ra';
+    const csv = ['speed,distance', ...Array.from({ length: 15 }, (_, i) => `${20 + i},${100 + 3 * i}`)].join('\r\n');
+    const body = [`--${boundary}`, 'Content-Disposition: form-data; name="name"', '', 'Browser framed', `--${boundary}`, 'Content-Disposition: form-data; name="file"; filename="club.csv"', 'Content-Type: text/csv', '', csv, `--${boundary}--`, ''].join('\r\n');
+    const bytes = new TextEncoder().encode(body);
+    const stream = new ReadableStream<Uint8Array>({
+      start(controller) {
+        controller.enqueue(bytes.slice(0, 40));
+        controller.enqueue(bytes.slice(40));
+        controller.close();
+      },
+    });
+    const res = await upload(stream, { 'content-type': `multipart/form-data; boundary=${boundary}` });
+    expect(res.status, JSON.stringify(res.json)).toBe(201);
+    expect(res.json.dataset!.rowCount).toBe(15);
+    const stored = await Dataset.findByPk(res.json.dataset!.id);
+    expect(stored!.name).toBe('Browser framed');
+    expect(Buffer.from(stored!.originalCsv).toString('utf8')).toBe(csv);
+  });
+
   it('a file just over the plan size inside the framing allowance is refused by its own size', async () => {
     const form = new FormData();
     form.set('file', new Blob([new Uint8Array(sketchCap + 10).fill(0x31)], { type: 'text/csv' }), 'edge.csv');
