@@ -1,3 +1,4 @@
+import { AsyncLocalStorage } from 'node:async_hooks';
 import path from 'node:path';
 import fs from 'node:fs';
 import { Sequelize, Transaction } from 'sequelize';
@@ -57,7 +58,120 @@ function createSequelize(storage: string): Sequelize {
     }
     return handle;
   };
+  queueWrites(sequelize);
   return sequelize;
+}
+
+/**
+ * Writes of one process take turns here before they reach SQLite's lock.
+ *
+ * Why not leave the waiting to SQLite: every Sequelize transaction opens a sqlite3 handle
+ * of its own, and a handle waiting for the lock sleeps inside one of libuv's four pool
+ * threads. A burst of a few writers fills those threads, and the transaction that holds
+ * the lock cannot run its next statement until they time out: everyone waits out the
+ * busy timeout and most get SQLITE_BUSY. Waiting in this queue costs no thread. Managed
+ * transactions (`sequelize.transaction(fn)`) and statements that write outside a
+ * transaction queue; reads never do (WAL readers do not block). Other processes are
+ * still met by the busy timeout.
+ *
+ * A transaction holds the turn until it commits, so slow work (payload building,
+ * hashing, payment calls) belongs before it; `writeLockStats` shows how long turns last,
+ * `insideWriteTurn` whether code runs inside one.
+ */
+export interface WriteLockStats {
+  /** Turns taken since the connection opened (or the last reset). */
+  turns: number;
+  /** Longest time one turn was held: the transaction or statement, start to end. */
+  longestHoldMs: number;
+  /** Longest time a writer waited for its turn. */
+  longestWaitMs: number;
+  totalHoldMs: number;
+}
+
+interface WriteQueue {
+  tail: Promise<void>;
+  stats: WriteLockStats;
+}
+
+// Marks the code that runs inside a turn (a transaction's callback), for insideWriteTurn.
+const turnContext = new AsyncLocalStorage<true>();
+
+const queues = new WeakMap<Sequelize, WriteQueue>();
+const READ_ONLY_SQL = /^\s*(SELECT|PRAGMA|EXPLAIN|WITH\b(?![\s\S]*\b(INSERT|UPDATE|DELETE|REPLACE)\b))/i;
+
+function emptyStats(): WriteLockStats {
+  return { turns: 0, longestHoldMs: 0, longestWaitMs: 0, totalHoldMs: 0 };
+}
+
+/** A wait past the busy timeout reads as SQLITE_BUSY, like a lock SQLite gave up on (→ 503). */
+function busyError(waitedMs: number): Error {
+  return Object.assign(new Error(`SQLITE_BUSY: database is locked (waited ${Math.round(waitedMs)} ms for this process's other writes)`), { code: 'SQLITE_BUSY' });
+}
+
+async function takeTurn<T>(queue: WriteQueue, work: () => Promise<T>): Promise<T> {
+  const previous = queue.tail;
+  let release!: () => void;
+  const mine = new Promise<void>((resolve) => (release = resolve));
+  queue.tail = mine;
+  const asked = performance.now();
+  let timer: NodeJS.Timeout | undefined;
+  const timedOut = await Promise.race([
+    previous.then(() => false),
+    new Promise<boolean>((resolve) => {
+      timer = setTimeout(() => resolve(true), BUSY_TIMEOUT_MS);
+      timer.unref?.();
+    }),
+  ]);
+  clearTimeout(timer);
+  if (timedOut) {
+    // Keep the line in order: whoever queued behind waits for the turn before ours.
+    void previous.then(release);
+    throw busyError(performance.now() - asked);
+  }
+  const started = performance.now();
+  const stats = queue.stats;
+  stats.longestWaitMs = Math.max(stats.longestWaitMs, started - asked);
+  try {
+    return await turnContext.run(true, work);
+  } finally {
+    const held = performance.now() - started;
+    stats.turns += 1;
+    stats.totalHoldMs += held;
+    stats.longestHoldMs = Math.max(stats.longestHoldMs, held);
+    release();
+  }
+}
+
+function queueWrites(sequelize: Sequelize): void {
+  const queue: WriteQueue = { tail: Promise.resolve(), stats: emptyStats() };
+  queues.set(sequelize, queue);
+  const transaction = sequelize.transaction.bind(sequelize) as (options?: unknown, fn?: unknown) => Promise<unknown>;
+  const query = sequelize.query.bind(sequelize) as (sql: unknown, options?: unknown) => Promise<unknown>;
+  (sequelize as unknown as { transaction: unknown }).transaction = (options?: unknown, fn?: unknown) => {
+    const managed = typeof options === 'function' || typeof fn === 'function';
+    // Unmanaged transactions (commit by hand) cannot be queued; the app uses managed ones.
+    return managed ? takeTurn(queue, () => transaction(options, fn)) : transaction(options, fn);
+  };
+  (sequelize as unknown as { query: unknown }).query = (sql: unknown, options?: { transaction?: unknown } & Record<string, unknown>) => {
+    const text = typeof sql === 'string' ? sql : ((sql as { query?: string } | null)?.query ?? '');
+    if (options?.transaction || READ_ONLY_SQL.test(text)) return query(sql, options);
+    return takeTurn(queue, () => query(sql, options));
+  };
+}
+
+/** How writers of this process have shared the write lock (for benchmarks and diagnosis). */
+export function writeLockStats(sequelize = getSequelize()): WriteLockStats {
+  return { ...(queues.get(sequelize)?.stats ?? emptyStats()) };
+}
+
+/** True in code running inside a write transaction's turn (slow work there keeps every other writer waiting). */
+export function insideWriteTurn(): boolean {
+  return turnContext.getStore() === true;
+}
+
+export function resetWriteLockStats(sequelize = getSequelize()): void {
+  const queue = queues.get(sequelize);
+  if (queue) queue.stats = emptyStats();
 }
 
 const globalCache = globalThis as unknown as { __partwiseSequelize?: Map<string, Sequelize> };

@@ -27,15 +27,17 @@ export async function createInvitation(actor: WorkspaceActor, input: { email: st
   if (existingUser && (await Membership.findOne({ where: { userId: existingUser.id, workspaceId } }))) {
     throw new AppError('conflict', `${input.email} is already in this workspace.`, { issues: [{ field: 'email', message: 'Already a member of this workspace.' }] });
   }
-  const previous = await Invitation.findOne({ where: { workspaceId, email: input.email, acceptedAt: null } });
-  const plan = await workspacePlan(workspaceId);
-  if ((await seatsTaken(workspaceId, { exceptInvitationId: previous?.id })) >= plan.limits.seats) throw seatLimitError(plan);
-
   const { token, hash } = newLinkToken();
   const expiresAt = new Date(Date.now() + INVITATION_TTL_MS);
-  const invitation = await sequelize.transaction(async (transaction) => {
+  // Seats are counted and the invitation written in one write transaction, so a burst of
+  // invitations cannot all see the same free seat.
+  const { invitation, previous } = await sequelize.transaction(async (transaction) => {
+    const previous = await Invitation.findOne({ where: { workspaceId, email: input.email, acceptedAt: null }, transaction });
+    const plan = await workspacePlan(workspaceId, transaction);
+    if ((await seatsTaken(workspaceId, { exceptInvitationId: previous?.id, transaction })) >= plan.limits.seats) throw seatLimitError(plan);
     if (previous) await previous.destroy({ transaction });
-    return Invitation.create({ workspaceId, email: input.email, role: input.role, tokenHash: hash, invitedById: actor.user.id, expiresAt }, { transaction });
+    const invitation = await Invitation.create({ workspaceId, email: input.email, role: input.role, tokenHash: hash, invitedById: actor.user.id, expiresAt }, { transaction });
+    return { invitation, previous };
   });
   await enqueueMail(invitationMail({ email: input.email, workspaceName: actor.workspace.name, inviterName: actor.user.name, role: input.role, link: appLink('/invite', { token }), expiresAt }));
   await recordAudit({ action: 'team.invited', actor: { id: actor.user.id, email: actor.user.email }, workspaceId, targetType: 'invitation', targetId: invitation.id, detail: { email: input.email, role: input.role, replaced: Boolean(previous) }, request });
@@ -102,13 +104,13 @@ export async function acceptInvitation(
     if (issues.length) throw new AppError('invalid_input', 'Choose a name and a password to create your account.', { issues });
   }
 
+  // Hashing takes a while; it is done before the write transaction, which holds the lock.
+  const passwordHash = account ? null : await bcrypt.hash(input.password!, BCRYPT_ROUNDS);
   const result = await sequelize.transaction(async (transaction) => {
     // Claim the invitation first, so two clicks never add two memberships.
     const [claimed] = await Invitation.update({ acceptedAt: new Date() }, { where: { id: invitation.id, acceptedAt: null }, transaction });
     if (claimed !== 1) throw new AppError('gone', 'This invitation was already used.');
-    const user =
-      account ??
-      (await User.create({ email: invitation.email, name: input.name!, passwordHash: await bcrypt.hash(input.password!, BCRYPT_ROUNDS), emailVerifiedAt: new Date(), isStaff: false }, { transaction }));
+    const user = account ?? (await User.create({ email: invitation.email, name: input.name!, passwordHash: passwordHash!, emailVerifiedAt: new Date(), isStaff: false }, { transaction }));
     const already = await Membership.findOne({ where: { userId: user.id, workspaceId: workspace.id }, transaction });
     if (!already) {
       const plan = await workspacePlan(workspace.id, transaction);

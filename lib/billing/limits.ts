@@ -31,31 +31,39 @@ export function upgradeFor(plan: Plan, fits: (p: Plan) => boolean): Plan | null 
   return null;
 }
 
-function upgradeHint(next: Plan | null): string {
-  return next ? `Upgrade to ${next.name} on the billing page to raise it.` : 'This is the largest plan; contact Partwise support for more.';
+/**
+ * The sentence after a refusal: the next plan that allows it, or, when none does, the
+ * largest plan and its limit (never "the largest plan" said of a smaller one).
+ */
+export function upgradeHint(plan: Plan, next: Plan | null, limitOf: (p: Plan) => string): string {
+  if (next) return `Upgrade to ${next.name} on the billing page: it ${limitOf(next)}.`;
+  const largest = PLANS[PLAN_IDS[PLAN_IDS.length - 1]];
+  if (largest.id === plan.id) return `${plan.name} is the largest plan; contact Partwise support for more.`;
+  return `No plan allows that much: ${largest.name}, the largest, ${limitOf(largest)}. Contact Partwise support for more.`;
 }
 
 const fmt = (n: number) => n.toLocaleString('en-US');
 
-function formatBytes(bytes: number): string {
+export function formatBytes(bytes: number): string {
   if (bytes >= 1024 * 1024) return `${(bytes / (1024 * 1024)).toFixed(bytes % (1024 * 1024) === 0 ? 0 : 1)} MB`;
   if (bytes >= 1024) return `${Math.round(bytes / 1024)} KB`;
   return `${bytes} bytes`;
 }
 
 /** Calculators that count against the limit: published and not retired (disabled ones still hold a place). */
-export async function countLiveCalculators(workspaceId: number): Promise<number> {
-  return Embed.count({ where: { workspaceId, status: { [Op.ne]: 'retired' } } });
+export async function countLiveCalculators(workspaceId: number, transaction?: Transaction): Promise<number> {
+  return Embed.count({ where: { workspaceId, status: { [Op.ne]: 'retired' } }, transaction });
 }
 
 /**
  * Call before publishing a NEW calculator (a new version of an existing one takes no
  * extra place). Throws plan_limit when the workspace already has as many live
- * calculators as its plan allows.
+ * calculators as its plan allows. Only a check made inside the write transaction that
+ * creates the calculator holds under concurrency (one without is a cheap early refusal).
  */
-export async function assertCanPublish(workspaceId: number): Promise<void> {
-  const plan = await workspacePlan(workspaceId);
-  const live = await countLiveCalculators(workspaceId);
+export async function assertCanPublish(workspaceId: number, transaction?: Transaction): Promise<void> {
+  const plan = await workspacePlan(workspaceId, transaction);
+  const live = await countLiveCalculators(workspaceId, transaction);
   if (live < plan.limits.calculators) return;
   const next = upgradeFor(plan, (p) => p.limits.calculators > live);
   const upgrade = next ? `upgrade to ${next.name} on the billing page to publish more` : 'contact Partwise support for more';
@@ -73,12 +81,26 @@ export async function assertRowsAllowed(workspaceId: number, rows: number, bytes
   const plan = await workspacePlan(workspaceId);
   if (bytes > plan.limits.uploadBytes) {
     const next = upgradeFor(plan, (p) => p.limits.uploadBytes >= bytes);
-    throw new AppError('plan_limit', `This file is ${formatBytes(bytes)}; the ${plan.name} plan accepts uploads up to ${formatBytes(plan.limits.uploadBytes)}. ${upgradeHint(next)}`);
+    throw new AppError('plan_limit', `This file is ${formatBytes(bytes)}; the ${plan.name} plan accepts uploads up to ${formatBytes(plan.limits.uploadBytes)}. ${upgradeHint(plan, next, uploadLimitOf)}`);
   }
   if (rows > plan.limits.datasetRows) {
     const next = upgradeFor(plan, (p) => p.limits.datasetRows >= rows);
-    throw new AppError('plan_limit', `This table has ${fmt(rows)} rows; the ${plan.name} plan accepts up to ${fmt(plan.limits.datasetRows)} rows per dataset. ${upgradeHint(next)}`);
+    throw new AppError('plan_limit', `This table has ${fmt(rows)} rows; the ${plan.name} plan accepts up to ${fmt(plan.limits.datasetRows)} rows per dataset. ${upgradeHint(plan, next, (p) => `accepts up to ${fmt(p.limits.datasetRows)} rows`)}`);
   }
+}
+
+const uploadLimitOf = (p: Plan) => `accepts uploads up to ${formatBytes(p.limits.uploadBytes)}`;
+
+/**
+ * An upload body over the plan's size, refused while it streams (413): named with the
+ * plan, its limit and the plan that would take it. `bytes` is the declared size when
+ * the request said one; a chunked body only tells us it passed the limit.
+ */
+export function uploadTooLarge(plan: Plan, bytes?: number): AppError {
+  const limit = formatBytes(plan.limits.uploadBytes);
+  const size = bytes === undefined ? `over ${limit}` : formatBytes(bytes);
+  const next = upgradeFor(plan, (p) => p.limits.uploadBytes >= (bytes ?? plan.limits.uploadBytes + 1));
+  return new AppError('payload_too_large', `This upload is ${size}; the ${plan.name} plan accepts uploads up to ${limit} per file. ${upgradeHint(plan, next, uploadLimitOf)}`);
 }
 
 export type AllowanceState = 'ok' | 'warned' | 'paused';

@@ -1,18 +1,25 @@
-import { AppError } from '@/lib/errors';
-import { assertRowsAllowed, workspacePlan } from '@/lib/billing/limits';
+import type { AppError } from '@/lib/errors';
+import type { Plan } from '@/lib/plans';
+import { assertRowsAllowed, uploadTooLarge, workspacePlan } from '@/lib/billing/limits';
 
 /**
  * Upload limits. The limits live in lib/plans.ts and the billing module decides which
- * plan is in force; this only asks it, at the two moments an upload can be refused.
+ * plan is in force; this only asks it, at the moments an upload can be refused: while
+ * the body streams (its size), and after parsing (its rows).
  */
 
-/** Before reading the body: a declared length far over the plan's size is refused unread. */
-export async function assertDeclaredSize(workspaceId: number, declaredBytes: number): Promise<void> {
+export interface UploadSizeLimit {
+  plan: Plan;
+  /** Bytes one uploaded file (or pasted table) may have on this plan. */
+  fileBytes: number;
+  /** The 413 for a body past the limit; `bytes` when its size is known (declared, or the file's). */
+  tooLarge(bytes?: number): AppError;
+}
+
+/** Before reading the body: the size the plan in force allows. */
+export async function uploadSizeLimit(workspaceId: number): Promise<UploadSizeLimit> {
   const plan = await workspacePlan(workspaceId);
-  // Multipart framing adds a little; the file itself is checked exactly after reading.
-  if (declaredBytes - 4096 > plan.limits.uploadBytes) {
-    throw new AppError('payload_too_large', `The upload is larger than the ${plan.name} plan's limit of ${Math.round(plan.limits.uploadBytes / (1024 * 1024))} MB per file.`);
-  }
+  return { plan, fileBytes: plan.limits.uploadBytes, tooLarge: (bytes) => uploadTooLarge(plan, bytes) };
 }
 
 /** The file as received, before parsing. */

@@ -64,13 +64,18 @@ export async function publishNew(acting: Acting, input: z.infer<typeof publishSc
   const model = await findModel(acting, input.mixtureModelId);
   const payload = snapshot(model);
   validatePayload(payload);
+  const checksum = payloadChecksum(payload);
+  // Early refusal without the write lock; the check that holds is the one inside.
   await assertCanPublish(acting.workspace.id);
+  // Only the count and the inserts run while the write lock is held, so the limit holds
+  // exactly under a burst and other workspaces' writes wait a few milliseconds at most.
   const result = await sequelize.transaction(async (transaction) => {
+    await assertCanPublish(acting.workspace.id, transaction);
     const embed = await Embed.create(
       { workspaceId: acting.workspace.id, mixtureModelId: model.id, token: newToken(), title: input.title ?? model.name, allowedOrigins: input.allowedOrigins ?? [] },
       { transaction },
     );
-    const version = await ModelVersion.create({ embedId: embed.id, mixtureModelId: model.id, createdById: acting.user.id, number: 1, payload, checksum: payloadChecksum(payload) }, { transaction });
+    const version = await ModelVersion.create({ embedId: embed.id, mixtureModelId: model.id, createdById: acting.user.id, number: 1, payload, checksum }, { transaction });
     await embed.update({ activeVersionId: version.id }, { transaction });
     return { embed, version };
   });
@@ -90,10 +95,11 @@ export async function publishVersion(acting: Acting, embedId: number, opts: { mi
   const model = await findModel(acting, modelId);
   const payload = snapshot(model);
   validatePayload(payload);
+  const checksum = payloadChecksum(payload);
   const version = await sequelize.transaction(async (transaction) => {
     const last = (await ModelVersion.max('number', { where: { embedId: embed.id }, transaction })) as number | null;
     const v = await ModelVersion.create(
-      { embedId: embed.id, mixtureModelId: model.id, createdById: acting.user.id, number: (last ?? 0) + 1, payload, checksum: payloadChecksum(payload) },
+      { embedId: embed.id, mixtureModelId: model.id, createdById: acting.user.id, number: (last ?? 0) + 1, payload, checksum },
       { transaction },
     );
     await embed.update({ mixtureModelId: model.id, ...(opts.activate === false ? {} : { activeVersionId: v.id }) }, { transaction });

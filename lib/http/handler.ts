@@ -1,6 +1,7 @@
 import { ZodError, type ZodType, z } from 'zod';
 import { AppError, type FieldIssue } from '@/lib/errors';
 import { decimalId } from './ids';
+import { declaredLength, discardBody, readTextCapped } from './body';
 import { assertSameOrigin } from './origin';
 
 /** zod issues → our field issues, with dotted paths a form can map back to fields. */
@@ -19,23 +20,32 @@ export function parseWith<T>(schema: ZodType<T>, value: unknown, what = 'input')
 
 const MAX_JSON_BYTES = 64 * 1024;
 
-/** The parts of a request a JSON body is read from (a web Request, or the server's fast path). */
+/**
+ * The parts of a request a JSON body is read from: a web Request (its `body` stream is
+ * read here, stopping past the cap), or a source that reads its own text and stops past
+ * the cap itself (the server's scoring fast path).
+ */
 export interface BodySource {
   headers: { get(name: string): string | null };
+  body?: ReadableStream<Uint8Array> | null;
   text(): Promise<string>;
 }
 
-/** Read a JSON body with a size cap and content-type check, then validate it. */
+/** Read a JSON body with a size cap (kept while it streams) and content-type check, then validate it. */
 export async function readJson<T>(request: BodySource, schema: ZodType<T>, opts: { maxBytes?: number } = {}): Promise<T> {
   const max = opts.maxBytes ?? MAX_JSON_BYTES;
+  const tooLarge = () => new AppError('payload_too_large', `The body is larger than ${max} bytes.`);
   const type = request.headers.get('content-type') ?? '';
   if (!/^application\/json\b/i.test(type)) {
+    await discardBody(request.body);
     throw new AppError('unsupported_media_type', 'Send the body as JSON (Content-Type: application/json).');
   }
-  const declared = Number(request.headers.get('content-length') ?? '0');
-  if (declared > max) throw new AppError('payload_too_large', `The body is larger than ${max} bytes.`);
-  const text = await request.text();
-  if (Buffer.byteLength(text) > max) throw new AppError('payload_too_large', `The body is larger than ${max} bytes.`);
+  if ((declaredLength(request.headers) ?? 0) > max) {
+    await discardBody(request.body);
+    throw tooLarge();
+  }
+  const text = request.body !== undefined ? await readTextCapped(request.body, max, tooLarge) : await request.text();
+  if (Buffer.byteLength(text) > max) throw tooLarge();
   let value: unknown;
   try {
     value = JSON.parse(text);

@@ -42,7 +42,8 @@ export interface ScoreCall extends BodySource {
 }
 
 export function scoreCallFrom(request: Request): ScoreCall {
-  return { headers: request.headers, text: () => request.text(), address: clientAddress(request), requestOrigin: new URL(request.url).origin };
+  // The body stream, so readJson stops at the cap instead of request.text() reading it all.
+  return { headers: request.headers, body: request.body, text: () => request.text(), address: clientAddress(request), requestOrigin: new URL(request.url).origin };
 }
 
 /** This app's own origins: the one the request came to, and NEXTAUTH_URL's. */

@@ -140,7 +140,7 @@ const CASES: Case[] = [
     handler: () => datasetsPOST,
     request: () => upload(new Uint8Array(50 * 1024 * 1024).fill(0x31), { as: 'outsider', headers: { 'content-length': String(50 * 1024 * 1024) } }),
     status: 413,
-    names: /Sketch plan's limit of 2 MB/,
+    names: /Sketch plan accepts uploads up to 2 MB per file/,
   },
   {
     name: 'upload: just over the Sketch limit without a declared length',
