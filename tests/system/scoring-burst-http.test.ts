@@ -13,7 +13,7 @@ import { prepareDatabase, startApp, type AppProcess } from '../helpers/app-proce
 type Models = typeof import('@/models');
 
 let dir = '';
-let env: NodeJS.ProcessEnv = {};
+let env = {} as NodeJS.ProcessEnv;
 let app: AppProcess | undefined;
 let m: Models;
 let embed: { id: number; workspaceId: number; token: string };
