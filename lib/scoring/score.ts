@@ -148,10 +148,11 @@ export async function scoreForToken(token: string, call: ScoreCall): Promise<{ a
     notePaused(ledger);
     throw paused();
   }
-  const burst = takeTokens(burstBuckets(embed.id, ledger.plan, rules.burstScale).buckets);
-  if (!burst.ok) {
-    noteBurst(embed, ledger, burstBuckets(embed.id, ledger.plan, rules.burstScale).limits[burst.blocked], limitClock());
-    throw calculatorBusy(burst.retryAfterSeconds);
+  const burst = burstBuckets(embed.id, ledger.plan, rules.burstScale);
+  const taken = takeTokens(burst.buckets);
+  if (!taken.ok) {
+    noteBurst(embed, ledger, burst.limits[taken.blocked], limitClock());
+    throw calculatorBusy(taken.retryAfterSeconds);
   }
   if (!reserveAnswer(ledger)) throw paused();
   let score: ReturnType<typeof scoreRow>;
