@@ -81,3 +81,45 @@ export function isPlanId(id: string): id is PlanId {
 export function formatPrice(cents: number): string {
   return cents === 0 ? 'Free' : `€${(cents / 100).toFixed(cents % 100 === 0 ? 0 : 2)}`;
 }
+
+// ---- Calculator burst limits (fair use of scoring) ----
+
+/**
+ * How fast one calculator may spend its workspace's monthly answers. Each window is a
+ * token bucket per calculator whose size is a share of the plan's monthly allowance
+ * and which refills evenly over the window, so a crowd of addresses (each under its own
+ * per-address limit) cannot drain a month in an afternoon: at most 2 % of the month in
+ * a minute, 10 % in an hour, 25 % in a day, and using up a whole month this way takes
+ * days, time enough for the owner, who is e-mailed on the first refusal, to react.
+ */
+export const CALCULATOR_BURST_SHARES = [
+  { window: 'minute', windowMs: 60_000, share: 0.02 },
+  { window: 'hour', windowMs: 3_600_000, share: 0.1 },
+  { window: 'day', windowMs: 86_400_000, share: 0.25 },
+] as const;
+
+export type BurstWindow = (typeof CALCULATOR_BURST_SHARES)[number]['window'];
+
+export interface BurstLimit {
+  window: BurstWindow;
+  /** Answers one calculator may give at once in this window (the bucket's size). */
+  answers: number;
+  /** Time in which a drained bucket refills completely. */
+  windowMs: number;
+}
+
+function burstLimitsOf(answersPerMonth: number): readonly BurstLimit[] {
+  return Object.freeze(CALCULATOR_BURST_SHARES.map((s) => ({ window: s.window, windowMs: s.windowMs, answers: Math.max(1, Math.floor(answersPerMonth * s.share)) })));
+}
+
+/** Burst limits of every plan, worked out once (Sketch: 10 a minute, 50 an hour, 125 a day). */
+export const CALCULATOR_BURST_LIMITS: Record<PlanId, readonly BurstLimit[]> = {
+  sketch: burstLimitsOf(PLANS.sketch.limits.answersPerMonth),
+  bench: burstLimitsOf(PLANS.bench.limits.answersPerMonth),
+  lab: burstLimitsOf(PLANS.lab.limits.answersPerMonth),
+};
+
+/** The burst limits one calculator of a workspace on `plan` answers under. */
+export function calculatorBurstLimits(plan: PlanId): readonly BurstLimit[] {
+  return CALCULATOR_BURST_LIMITS[plan] ?? CALCULATOR_BURST_LIMITS[DEFAULT_PLAN];
+}

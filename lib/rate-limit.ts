@@ -77,6 +77,45 @@ export function takeToken(key: string, opts: LimitOptions): LimitResult {
   return result(bucket, true);
 }
 
+/** The result of `takeTokens`: `blocked` is the index of the first bucket that refused. */
+export interface MultiLimitResult extends LimitResult {
+  blocked: number;
+}
+
+/**
+ * Take one token from every bucket, or from none: `ok: false` when any of them is
+ * empty, with `retryAfterSeconds` of the one that will take longest to allow a request.
+ * For limits that stack (a minute, an hour and a day bucket of one calculator), so a
+ * refusal by one bucket spends nothing of the others.
+ */
+export function takeTokens(buckets: readonly { key: string; opts: LimitOptions }[]): MultiLimitResult {
+  const now = clock();
+  const found: Bucket[] = [];
+  let blocked = -1;
+  let wait = 0;
+  for (let i = 0; i < buckets.length; i++) {
+    check(buckets[i].opts);
+    const bucket = bucketFor(buckets[i].key, buckets[i].opts, now);
+    found.push(bucket);
+    if (bucket.tokens < 1) {
+      if (blocked < 0) blocked = i;
+      wait = Math.max(wait, result(bucket, false).retryAfterSeconds);
+    }
+  }
+  if (blocked >= 0) return { ok: false, remaining: 0, retryAfterSeconds: wait, blocked };
+  let remaining = Infinity;
+  for (const bucket of found) {
+    bucket.tokens -= 1;
+    remaining = Math.min(remaining, Math.floor(bucket.tokens));
+  }
+  return { ok: true, remaining: Number.isFinite(remaining) ? remaining : 0, retryAfterSeconds: 0, blocked: -1 };
+}
+
+/** The limiter's clock (the test clock when one is set), for callers that label windows. */
+export function limitClock(): number {
+  return clock();
+}
+
 /** Would `takeToken` succeed now? Takes nothing. */
 export function peekToken(key: string, opts: LimitOptions): LimitResult {
   check(opts);

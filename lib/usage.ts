@@ -131,6 +131,37 @@ export async function flushUsage(): Promise<void> {
   }
 }
 
+/** The month bucket's name for `ms` (cached per hour, like the buckets recordAnswer adds to). */
+export function currentMonthPeriod(ms = Date.now()): string {
+  return periodsNow(ms).month;
+}
+
+function pendingMonthAnswers(workspaceId: number, period: string): number {
+  let n = 0;
+  for (const p of buffer.pending.values()) if (p.workspaceId === workspaceId && p.granularity === 'month' && p.period === period) n += p.count;
+  return n;
+}
+
+/**
+ * A workspace's answers of a month exactly as of one instant: the table plus what is
+ * still in the buffer, read while no flush runs (a flush takes counts out of the buffer
+ * before they reach the table). `use` runs synchronously at that instant, so a caller
+ * can set up an in-memory counter that no answer recorded meanwhile slips past.
+ */
+export async function readMonthlyAnswersAtOnce<T>(workspaceId: number, period: string, use: (count: number) => T): Promise<T> {
+  while (buffer.running) await buffer.running.catch(() => undefined);
+  let release!: () => void;
+  const held = new Promise<void>((resolve) => (release = resolve));
+  buffer.running = held;
+  try {
+    const total = await UsageCounter.sum('count', { where: { workspaceId, granularity: 'month', period } });
+    return use(Number(total ?? 0) + pendingMonthAnswers(workspaceId, period));
+  } finally {
+    if (buffer.running === held) buffer.running = null;
+    release();
+  }
+}
+
 /** Answers of all a workspace's calculators in a month. */
 export async function workspaceMonthlyAnswers(workspaceId: number, period = monthPeriod()): Promise<number> {
   await flushUsage();

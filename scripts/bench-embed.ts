@@ -170,6 +170,8 @@ async function main() {
     // One loopback client stands for many visitors: lift the per-address and per-token limits.
     PARTWISE_SCORE_ADDRESS_BURST: '1000000000',
     PARTWISE_SCORE_TOKEN_BURST: '1000000000',
+    // and the plan's per-calculator burst limits (fair use), which would otherwise answer most requests with 429.
+    PARTWISE_SCORE_BURST_SCALE: '1000000',
     PORT: String(PORT),
   };
   const token = await prepareDatabase(appEnv);

@@ -115,6 +115,8 @@ async function main() {
     // The rate limits protect calculators from one noisy visitor; one load generator is that visitor.
     PARTWISE_SCORE_ADDRESS_BURST: '100000000',
     PARTWISE_SCORE_TOKEN_BURST: '100000000',
+    // and the plan's per-calculator burst limits (fair use), which would otherwise answer most requests with 429.
+    PARTWISE_SCORE_BURST_SCALE: '1000000',
     PORT: String(PORT),
   };
   const seeded = await prepare(env);

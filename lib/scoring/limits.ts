@@ -2,7 +2,8 @@ import type { LimitOptions } from '@/lib/rate-limit';
 
 /**
  * Settings of the public calculator routes, from the environment: rate limits for
- * lib/rate-limit's buckets and how long embed and allowance lookups are remembered.
+ * lib/rate-limit's buckets, how long embed and allowance lookups are remembered, and a
+ * factor on the plans' calculator burst limits (the limits themselves are in lib/plans).
  * Read at most once a second (reading process.env on every answer shows up in
  * profiles of the scoring route); `rereadScoringSettings` (and clearScoringCaches)
  * make a test's or the benchmark's change count at once.
@@ -19,6 +20,8 @@ export interface ScoringSettings {
   embedCacheMs: number;
   /** How long a workspace's answer allowance is remembered. */
   allowanceCacheMs: number;
+  /** Factor on every plan's calculator burst limits (lib/plans); 1 in production, raised by load benchmarks. */
+  burstScale: number;
 }
 
 function readSettings(): ScoringSettings {
@@ -29,6 +32,7 @@ function readSettings(): ScoringSettings {
     perToken: { limit: envNumber('PARTWISE_SCORE_TOKEN_BURST', 600), windowMs: envNumber('PARTWISE_SCORE_TOKEN_WINDOW_MS', 6_000) },
     embedCacheMs: envNumber('PARTWISE_EMBED_CACHE_MS', 2000, true),
     allowanceCacheMs: envNumber('PARTWISE_ALLOWANCE_CACHE_MS', 2000, true),
+    burstScale: envNumber('PARTWISE_SCORE_BURST_SCALE', 1),
   };
 }
 

@@ -4,9 +4,11 @@ import { clientAddress } from '@/lib/audit';
 import { callerOrigin } from '@/lib/embeds/origins';
 import { AppError } from '@/lib/errors';
 import { readJson, type BodySource } from '@/lib/http/handler';
+import { calculatorBurstLimits, type BurstLimit, type PlanId } from '@/lib/plans';
+import { limitClock, takeToken, takeTokens, type LimitOptions } from '@/lib/rate-limit';
 import { recordAnswer } from '@/lib/usage';
-import { answerState } from './allowance';
-import { takeToken } from '@/lib/rate-limit';
+import { noteBurst, notePaused } from './alerts';
+import { readyLedger, releaseAnswer, reserveAnswer, waitForLedger } from './allowance';
 import { scoringSettings } from './limits';
 import { isServing, loadServedEmbed, loadServedVersion, parseValues, type ServedEmbed } from './served';
 
@@ -81,7 +83,43 @@ function limited(retryAfterSeconds: number, what: string): AppError {
   return new AppError('rate_limited', `Too many answers ${what}; try again in ${retryAfterSeconds} s.`, { headers: { 'Retry-After': String(retryAfterSeconds) } });
 }
 
-/** The public scoring flow: cheap refusals first, then validation, then the engine. */
+/** How long to wait, in words a visitor reads easily. */
+function waitText(seconds: number): string {
+  if (seconds <= 90) return `${seconds} second${seconds === 1 ? '' : 's'}`;
+  const minutes = Math.ceil(seconds / 60);
+  return `${minutes} minute${minutes === 1 ? '' : 's'}`;
+}
+
+/** A calculator's burst limit: neutral for the visitor, who did nothing wrong. */
+function calculatorBusy(retryAfterSeconds: number): AppError {
+  return new AppError('rate_limited', `Many people are using this calculator right now. Please try again in ${waitText(retryAfterSeconds)}.`, { headers: { 'Retry-After': String(retryAfterSeconds) } });
+}
+
+function paused(): AppError {
+  return new AppError('unavailable', 'This calculator is taking a short break and will answer again soon.', { headers: { 'Retry-After': '3600' } });
+}
+
+interface BurstBuckets {
+  plan: PlanId;
+  scale: number;
+  limits: BurstLimit[];
+  buckets: { key: string; opts: LimitOptions }[];
+}
+
+// Per calculator, so the hot path builds no keys or options per answer.
+const burstBucketCache = ((globalThis as Record<symbol, unknown>)[Symbol.for('partwise.burstBuckets')] ??= new Map<number, BurstBuckets>()) as Map<number, BurstBuckets>;
+
+function burstBuckets(embedId: number, plan: PlanId, scale: number): BurstBuckets {
+  const hit = burstBucketCache.get(embedId);
+  if (hit && hit.plan === plan && hit.scale === scale) return hit;
+  const limits = calculatorBurstLimits(plan).map((l) => ({ ...l, answers: Math.max(1, Math.floor(l.answers * scale)) }));
+  const entry: BurstBuckets = { plan, scale, limits, buckets: limits.map((l) => ({ key: `score:burst:${embedId}:${l.window}`, opts: { limit: l.answers, windowMs: l.windowMs } })) };
+  if (burstBucketCache.size >= 10_000) burstBucketCache.clear();
+  burstBucketCache.set(embedId, entry);
+  return entry;
+}
+
+/** The public scoring flow: cheap refusals first, then validation, then the allowance, then the engine. */
 export async function scoreForToken(token: string, call: ScoreCall): Promise<{ answer: ScoreAnswer; embed: ServedEmbed }> {
   const rules = scoringSettings();
   const address = call.address ?? 'unknown';
@@ -100,13 +138,34 @@ export async function scoreForToken(token: string, call: ScoreCall): Promise<{ a
   const version = await loadServedVersion(embed.activeVersionId!);
   const values = parseValues(version, body.values);
 
-  if ((await answerState(embed.workspaceId)) === 'paused') {
-    throw new AppError('unavailable', 'This calculator is taking a short break and will answer again soon.', { headers: { 'Retry-After': '3600' } });
+  let ledger = readyLedger(embed.workspaceId);
+  for (let tries = 0; !ledger; tries++) {
+    const read = await waitForLedger(embed.workspaceId);
+    ledger = readyLedger(embed.workspaceId) ?? (tries >= 2 ? read : null);
   }
-
-  const row = version.payload.fields.map((f) => values[f.feature]);
-  const score = scoreRow(version.engine, row, { unusualBelow: embed.typicalityThreshold });
+  // From here to recordAnswer nothing awaits: the checks, the reservation and the
+  // metering happen in one step, so concurrent answers cannot pass the line together.
+  if (ledger.used >= ledger.pauseAt) {
+    notePaused(ledger);
+    throw paused();
+  }
+  const burst = burstBuckets(embed.id, ledger.plan, rules.burstScale);
+  const taken = takeTokens(burst.buckets);
+  if (!taken.ok) {
+    noteBurst(embed, ledger, burst.limits[taken.blocked], limitClock());
+    throw calculatorBusy(taken.retryAfterSeconds);
+  }
+  if (!reserveAnswer(ledger)) throw paused();
+  let score: ReturnType<typeof scoreRow>;
+  try {
+    const row = version.payload.fields.map((f) => values[f.feature]);
+    score = scoreRow(version.engine, row, { unusualBelow: embed.typicalityThreshold });
+  } catch (error) {
+    releaseAnswer(ledger);
+    throw error;
+  }
   recordAnswer(embed);
+  if (ledger.used >= ledger.pauseAt) notePaused(ledger);
 
   const clusters = version.payload.clusters;
   const answer: ScoreAnswer = {

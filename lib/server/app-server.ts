@@ -58,7 +58,8 @@ export async function startAppServer({ port, host, dev = false }: AppServerOptio
     server.close();
     server.closeIdleConnections();
     // Requests in flight get a moment; a stuck one must not keep the counts from disk.
-    await new Promise((r) => setTimeout(r, 500).unref());
+    // (A held timer: with the listener closed, an unref'd one let node exit here, unflushed, with code 0.)
+    await new Promise((r) => setTimeout(r, 500));
     server.closeAllConnections();
     try {
       await flushUsage();

@@ -9,6 +9,8 @@ import { OwnerOnly } from '@/components/billing/OwnerOnly';
 import { PlanChooser } from '@/components/billing/PlanChooser';
 import { SelfServiceButton } from '@/components/billing/SelfServiceButton';
 import { UsageMeters } from '@/components/billing/UsageMeters';
+import { ScoringAlerts } from '@/components/billing/ScoringAlerts';
+import { PAUSE_ALERT_THRESHOLD, recentScoringAlerts } from '@/lib/scoring/alerts';
 import { day, euros } from '@/components/billing/format';
 
 export const metadata: Metadata = { title: 'Billing' };
@@ -30,7 +32,7 @@ export default async function BillingPage({ searchParams }: { searchParams: Prom
     if (e instanceof AppError && e.code === 'forbidden') return <OwnerOnly />;
     throw e;
   }
-  const [summary, invoices, params] = await Promise.all([billingSummary(actor.workspace.id), listInvoices(actor.workspace.id), searchParams]);
+  const [summary, invoices, alerts, params] = await Promise.all([billingSummary(actor.workspace.id), listInvoices(actor.workspace.id), recentScoringAlerts(actor.workspace.id), searchParams]);
   const { plan, subscription: sub } = summary;
   const cancelled = params.checkout === 'cancelled';
 
@@ -79,6 +81,10 @@ export default async function BillingPage({ searchParams }: { searchParams: Prom
 
       <Section title="This month's usage" id="usage" lead={`Counted for ${summary.period}. The answer count starts again on the first of each month.`}>
         <UsageMeters meters={summary.usage} pauseAt={summary.answers.pauseAt} />
+      </Section>
+
+      <Section title="Scoring alerts" id="alerts" lead="When a calculator is asked for answers faster than fair use allows, or the month's answers run low, we e-mail the owners and note it here.">
+        <ScoringAlerts alerts={alerts} pauseThreshold={PAUSE_ALERT_THRESHOLD} />
       </Section>
 
       <Section title="Change plan" id="plans" lead={sub.paid ? 'Switching between paid plans takes effect at once; the payment service prorates the difference.' : 'Paid plans are paid by card on the payment service’s page.'}>
