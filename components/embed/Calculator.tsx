@@ -132,8 +132,9 @@ export function Calculator(props: CalculatorProps) {
         focusFirst(fromServer);
         if (!Object.keys(fromServer).length) setNotice({ tone: 'problem', text: message || 'Some values could not be used.' });
       } else if (res.status === 429) {
+        // The server says whether this visitor sent many answers or the calculator as a whole is busy.
         const wait = res.headers.get('retry-after');
-        setNotice({ tone: 'calm', text: `That was a lot of tries in a short time. Please wait ${wait ? `${wait} seconds` : 'a moment'} and try again.` });
+        setNotice({ tone: 'calm', text: message || `That was a lot of tries in a short time. Please wait ${wait ? `${wait} seconds` : 'a moment'} and try again.` });
       } else if (res.status === 503) {
         setNotice({ tone: 'calm', text: 'This calculator is taking a short break and will answer again soon. Nothing is wrong with your values.' });
       } else if (res.status === 410 || res.status === 404) {

@@ -80,7 +80,7 @@ export function corsHeaders(request: { headers: { get(name: string): string | nu
 }
 
 function limited(retryAfterSeconds: number, what: string): AppError {
-  return new AppError('rate_limited', `Too many answers ${what}; try again in ${retryAfterSeconds} s.`, { headers: { 'Retry-After': String(retryAfterSeconds) } });
+  return new AppError('rate_limited', `Too many answers ${what}; please try again in ${waitText(retryAfterSeconds)}.`, { headers: { 'Retry-After': String(retryAfterSeconds) } });
 }
 
 /** How long to wait, in words a visitor reads easily. */
