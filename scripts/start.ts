@@ -34,7 +34,15 @@ async function main() {
     await sequelize.close();
   }
 
-  if (process.env.PARTWISE_SKIP_SEED !== '1') await seedDemo();
+  // A deployment (a real signing secret) gets no demo accounts, whose passwords are in the
+  // README, and no payment fake that accepts test cards, unless asked for by name.
+  const deployment = !!(process.env.NEXTAUTH_SECRET ?? process.env.AUTH_SECRET);
+  const seed = deployment ? process.env.PARTWISE_SEED_DEMO === '1' : process.env.PARTWISE_SKIP_SEED !== '1';
+  if (deployment) {
+    process.env.PAYMENTS_FAKE ??= '0';
+    console.log(`[partwise] deployment start (NEXTAUTH_SECRET is set): demo seed ${seed ? 'ON (PARTWISE_SEED_DEMO=1)' : 'off'}, payment fake ${process.env.PAYMENTS_FAKE === '0' ? 'off' : 'ON (PAYMENTS_FAKE=1)'}, mail ${process.env.SMTP_HOST ? `to ${process.env.SMTP_HOST}` : 'to the local sink only (set SMTP_HOST)'}.`);
+  }
+  if (seed) await seedDemo();
 
   const services = await startServices({ dataDir, appUrl });
   const env: NodeJS.ProcessEnv = { ...process.env, NEXT_TELEMETRY_DISABLED: '1', NEXTAUTH_URL: appUrl, PORT: port, PARTWISE_DATA_DIR: dataDir };

@@ -132,6 +132,8 @@ export async function waitForMail(dir: string, match: (m: StoredMail) => boolean
 export const smtpFakeService = {
   name: 'smtp-fake',
   async start({ dataDir }: { dataDir: string; appUrl: string }) {
+    // A configured SMTP_HOST is a real mail server: the sink must not swallow its mail.
+    if (process.env.SMTP_HOST && process.env.SMTP_FAKE !== '1') return { name: 'smtp-fake', env: {} as Record<string, string>, stop: async () => undefined };
     const fake = await startSmtpFake({ dir: path.join(dataDir, 'mail'), port: Number(process.env.SMTP_FAKE_PORT ?? 0) });
     console.log(`[partwise] mail sink: SMTP on ${fake.host}:${fake.port}, messages in ${fake.dir}`);
     return {

@@ -33,6 +33,13 @@ export const rows: MatrixRow[] = [
     note: 'the world has no paid subscription, so a change is a conflict after the role check',
   },
   {
+    file: 'app/api/billing/plan/preview/route.ts',
+    method: 'GET',
+    url: () => '/api/billing/plan/preview?plan=bench',
+    expect: ownersOnly(200),
+    note: 'without a paid subscription the preview is the checkout price, read without the payment service',
+  },
+  {
     file: 'app/api/billing/cancel/route.ts',
     method: 'POST',
     url: () => '/api/billing/cancel',

@@ -28,6 +28,6 @@ describe('demo seed: fitted ride groups', () => {
     expect(byLabel['Easy social'][0]).toBeLessThan(21);
     expect(byLabel['Steady tourers'][1]).toBeGreaterThan(110);
     expect(model.fields.map((f) => f.label)).toEqual(['Average speed', 'Weekly distance', 'Climbing per ride']);
-    expect(model.caution).toMatch(/not a diagnosis/);
+    expect(model.caution).toMatch(/describe our club, not cyclists in general/);
   });
 });
