@@ -26,7 +26,7 @@ export default async function VerifyPage({ searchParams }: { searchParams: Promi
       lead={
         sent ? (
           <>
-            We sent a confirmation link to <strong className="text-ink">{email ?? 'your address'}</strong>. Open it to finish, then sign in.
+            We sent a mail to <strong className="text-ink">{email ?? 'your address'}</strong>. Open the link in it to finish, then sign in.
           </>
         ) : (
           'Lost the mail, or the link expired? We will send a fresh one.'
