@@ -49,7 +49,7 @@ const translations = {
     sequences: 'Leave out runs like "abc" or "1234".',
     repeated: 'Leave out repeated words and characters.',
     longerKeyboardPattern: 'Keyboard patterns need to be long and change direction to help.',
-    anotherWord: 'Add another word or two that are not common.',
+    anotherWord: 'Add another word or two that are not common: a few unrelated words in a row are strong and easy to remember.',
     useWords: 'A few unrelated words in a row work well; avoid well-known phrases.',
     noNeed: 'Length matters more than symbols, digits or capitals.',
     pwned: 'If you use it anywhere else, change it there too.',
@@ -139,8 +139,9 @@ export function judgePassword(password: string, owner: PasswordOwner = {}): Pass
   const result: ZxcvbnResult = strengthEstimator().check(password, [...words]);
   if (result.score >= MIN_PASSWORD_SCORE) return { ok: true, score: result.score };
   const why = result.feedback.warning ? `it is too easy to guess: ${result.feedback.warning}` : 'it is too easy to guess.';
-  const helps = result.feedback.suggestions.length ? result.feedback.suggestions.join(' ') : translations.suggestions.anotherWord;
-  return { ok: false, score: result.score, message: `This password is refused because ${why} ${helps} A longer mix of unrelated words is both strong and easy to remember.` };
+  const helps = result.feedback.suggestions.join(' ');
+  const advice = helps.includes('unrelated words') ? helps : `${helps} ${translations.suggestions.anotherWord}`.trim();
+  return { ok: false, score: result.score, message: `This password is refused because ${why} ${advice}` };
 }
 
 /** Throws a 422 naming the password field when the password is too easy to guess. */

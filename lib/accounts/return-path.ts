@@ -63,3 +63,14 @@ export function safeRedirectUrl(url: string, baseUrl: string, fallback = '/studi
   }
   return `${origin}${safeReturnPath(path, fallback)}`;
 }
+
+/**
+ * Whether a callbackUrl as next-auth receives it (query or callback-url cookie) can be
+ * handed to next-auth unchanged. next-auth answers 500 to anything that is not an
+ * http(s) URL or absolute path before our redirect callback runs, so the auth route
+ * replaces such values first (app/api/auth/[...nextauth]/route.ts).
+ */
+export function isSafeCallbackUrl(value: string, baseUrl: string): boolean {
+  const safe = safeRedirectUrl(value, baseUrl);
+  return value === safe || `${new URL(baseUrl).origin}${value}` === safe;
+}

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { safeRedirectUrl, safeReturnPath } from '@/lib/accounts/return-path';
+import { isSafeCallbackUrl, safeRedirectUrl, safeReturnPath } from '@/lib/accounts/return-path';
 
 /** Values an attacker puts in callbackUrl (already decoded once, as the query parser hands them over). */
 const HOSTILE: [string, string][] = [
@@ -92,5 +92,15 @@ describe('safeRedirectUrl (next-auth redirect callback)', () => {
     expect(safeRedirectUrl('/studio/team', base)).toBe(`${base}/studio/team`);
     expect(safeRedirectUrl('/', base)).toBe(`${base}/`);
     expect(safeRedirectUrl(`${base}/studio/billing?from=mail`, base)).toBe(`${base}/studio/billing?from=mail`);
+  });
+});
+
+describe('isSafeCallbackUrl (what the auth route lets through to next-auth unchanged)', () => {
+  const base = 'http://localhost:3000';
+  it('passes paths and absolute URLs of this app', () => {
+    for (const v of ['/studio', '/studio/team?x=1', `${base}/studio`, `${base}/`]) expect(isSafeCallbackUrl(v, base), v).toBe(true);
+  });
+  it.each(HOSTILE.filter(([, v]) => v !== ''))('stops %s', (_label, value) => {
+    expect(isSafeCallbackUrl(value, base)).toBe(false);
   });
 });
