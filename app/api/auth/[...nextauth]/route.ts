@@ -10,15 +10,16 @@ const CALLBACK_COOKIES = ['next-auth.callback-url', '__Secure-next-auth.callback
 /**
  * next-auth itself answers 500 to a callbackUrl (query or callback-url cookie) that is
  * not an http(s) URL or path, before the redirect callback can refuse it, so a hostile
- * cookie would break every sign-in. Such values are replaced by the studio here; the
- * cookie is also cleared in the browser. The redirect callback checks the rest.
+ * cookie would break every sign-in. Such values are replaced by the studio here (the
+ * browser's cookie too); the redirect callback checks everything else.
  */
 async function withSafeCallbackUrl(request: NextRequest, context: { params: Promise<{ nextauth: string[] }> }) {
   const base = new URL(process.env.NEXTAUTH_URL ?? request.nextUrl.origin).origin;
   const jar = await cookies();
   for (const name of CALLBACK_COOKIES) {
     const value = jar.get(name)?.value;
-    if (value && !isSafeCallbackUrl(value, base)) jar.delete(name);
+    // Same attributes as next-auth's own callback-url cookie, so the browser's copy is replaced too.
+    if (value && !isSafeCallbackUrl(value, base)) jar.set(name, safeRedirectUrl(value, base), { httpOnly: true, sameSite: 'lax', path: '/', secure: name.startsWith('__Secure-') });
   }
   const asked = request.nextUrl.searchParams.get('callbackUrl');
   if (asked !== null && !isSafeCallbackUrl(asked, base)) {
