@@ -6,7 +6,7 @@ import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { z } from 'zod';
 import { signIn, signOut } from 'next-auth/react';
-import { PASSWORD_MIN, password, personName } from '@/lib/accounts/schemas';
+import { PASSWORD_HINT, password, personName } from '@/lib/accounts/schemas';
 import type { InvitationSummary } from '@/lib/accounts/invitations';
 import { Field, FormBanner, applyServerIssues, postJson } from './form-kit';
 
@@ -85,7 +85,7 @@ export function AcceptInvitation({ token, invitation, signedInAs }: { token: str
       {banner ? <FormBanner>{banner}</FormBanner> : null}
       <Field label="E-mail" name="email-display" value={invitation.email} readOnly disabled />
       <Field label="Your name" autoComplete="name" error={formState.errors.name?.message} {...register('name')} />
-      <Field label="Choose a password" type="password" autoComplete="new-password" hint={`At least ${PASSWORD_MIN} characters.`} error={formState.errors.password?.message} {...register('password')} />
+      <Field label="Choose a password" type="password" autoComplete="new-password" hint={PASSWORD_HINT} error={formState.errors.password?.message} {...register('password')} />
       <button type="submit" className="pw-button w-full" disabled={formState.isSubmitting}>
         {formState.isSubmitting ? 'Joining…' : `Create account and join ${invitation.workspaceName}`}
       </button>

@@ -5,7 +5,7 @@ import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { z } from 'zod';
-import { PASSWORD_MIN, password } from '@/lib/accounts/schemas';
+import { PASSWORD_HINT, password } from '@/lib/accounts/schemas';
 import { Field, FormBanner, applyServerIssues, postJson } from './form-kit';
 
 const schema = z.object({ password, confirm: z.string() }).refine((v) => v.password === v.confirm, { path: ['confirm'], message: 'The two passwords differ.' });
@@ -42,7 +42,7 @@ export function ResetPasswordForm({ token }: { token: string }) {
           </Link>
         </FormBanner>
       ) : null}
-      <Field label="New password" type="password" autoComplete="new-password" hint={`At least ${PASSWORD_MIN} characters.`} error={formState.errors.password?.message} {...register('password')} />
+      <Field label="New password" type="password" autoComplete="new-password" hint={PASSWORD_HINT} error={formState.errors.password?.message} {...register('password')} />
       <Field label="New password, again" type="password" autoComplete="new-password" error={formState.errors.confirm?.message} {...register('confirm')} />
       <button type="submit" className="pw-button" disabled={formState.isSubmitting}>
         {formState.isSubmitting ? 'Saving…' : 'Set new password'}

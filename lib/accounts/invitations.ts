@@ -11,6 +11,7 @@ import { ACCOUNT_LIMITS, limitOrThrow } from './limits';
 import { workspacePlan } from '@/lib/billing/limits';
 import { seatLimitError, seatsTaken } from './seats';
 import { BCRYPT_ROUNDS } from './signup';
+import { assertStrongPassword } from './password-strength';
 
 export const INVITATION_TTL_MS = 7 * DAY;
 
@@ -102,6 +103,7 @@ export async function acceptInvitation(
     if (!input.name) issues.push({ field: 'name', message: 'Tell us what to call you.' });
     if (!input.password) issues.push({ field: 'password', message: 'Choose a password for your new account.' });
     if (issues.length) throw new AppError('invalid_input', 'Choose a name and a password to create your account.', { issues });
+    assertStrongPassword(input.password!, { email: invitation.email, name: input.name });
   }
 
   // Hashing takes a while; it is done before the write transaction, which holds the lock.

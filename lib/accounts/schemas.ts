@@ -11,6 +11,8 @@ import { storedText } from '@/lib/http/text';
 z.config({ jitless: true });
 
 export const PASSWORD_MIN = 10;
+/** What the password fields say up front; the server also refuses easily guessed ones (password-strength.ts). */
+export const PASSWORD_HINT = `At least ${PASSWORD_MIN} characters and hard to guess: not a common password, your name or your e-mail. A few unrelated words work well.`;
 
 export const email = storedText('The e-mail address').trim().toLowerCase().min(1, 'Enter your e-mail address.').max(320, 'That address is too long.').email('Enter a valid e-mail address, like name@example.org.');
 export const password = z

@@ -4,13 +4,15 @@ import { customAlphabet } from 'nanoid';
 import { AppError } from '@/lib/errors';
 import { recordAudit } from '@/lib/audit';
 import { enqueueMail } from '@/lib/mail';
-import { appLink, verificationMail } from '@/lib/mail/templates';
+import { appLink, signUpAttemptMail, verificationMail } from '@/lib/mail/templates';
 import { takeToken } from '@/lib/rate-limit';
 import { DEFAULT_PLAN } from '@/lib/plans';
 import { AuthToken, Membership, Subscription, User, Workspace, sequelize } from '@/models';
 import type { SignUpInput } from './schemas';
 import { DAY, hashToken, newLinkToken } from './tokens';
 import { ACCOUNT_LIMITS, addressKey, limitOrThrow } from './limits';
+import { afterResponse } from './after-response';
+import { assertStrongPassword } from './password-strength';
 
 export const BCRYPT_ROUNDS = 10;
 export const VERIFY_TTL_MS = 2 * DAY;
@@ -30,32 +32,49 @@ export async function createOwnedWorkspace(userId: number, name: string, transac
   return workspace;
 }
 
+/** What the sign-up route answers, new address or taken alike. */
+export const SIGN_UP_ANSWER = { message: 'Check your inbox: we sent a mail to that address with the next step.' };
+
 /**
  * Sign-up: a user, a workspace they own on the free plan, and a verification mail.
- * Never creates staff (that is `npm run staff:add`); an address already taken —
- * staff included — is refused with a field issue.
+ * Never creates staff (that is `npm run staff:add`). An address already taken —
+ * staff included — gets the same answer as a new one (the route says "check your
+ * inbox" either way); its holder is mailed that someone tried, with ways to sign in
+ * or reset. The password is hashed before the lookup in both cases and the mail goes
+ * out after the answer, so the time taken does not tell the two apart either.
+ * Refuses weak passwords (422 on `password`) before looking at the address.
  */
-export async function signUp(input: SignUpInput, request?: Request): Promise<{ user: User; workspace: Workspace }> {
+export async function signUp(input: SignUpInput, request?: Request): Promise<void> {
   limitOrThrow(`signup:address:${addressKey(request)}`, ACCOUNT_LIMITS.signUpPerAddress, 'sign-ups');
-  const existing = await User.findOne({ where: { email: input.email } });
-  if (existing) {
-    throw new AppError('conflict', 'An account with this e-mail already exists. Sign in, or choose a new password if you forgot it.', {
-      issues: [{ field: 'email', message: 'An account with this e-mail already exists. Sign in, or reset your password.' }],
-    });
-  }
+  assertStrongPassword(input.password, { email: input.email, name: input.name });
   const passwordHash = await bcrypt.hash(input.password, BCRYPT_ROUNDS);
-  const { user, workspace } = await sequelize.transaction(async (transaction) => {
-    const user = await User.create({ email: input.email, name: input.name, passwordHash, isStaff: false }, { transaction });
-    const workspace = await createOwnedWorkspace(user.id, input.workspaceName, transaction);
-    return { user, workspace };
-  }).catch((e: Error) => {
-    // Two sign-ups racing for the same address: the unique index decides.
-    if (e.name === 'SequelizeUniqueConstraintError') throw new AppError('conflict', 'An account with this e-mail already exists.', { issues: [{ field: 'email', message: 'An account with this e-mail already exists.' }] });
+  const existing = await User.findOne({ where: { email: input.email } });
+  if (existing) return tellHolderOfSignUpAttempt(existing, request);
+  let created: { user: User; workspace: Workspace };
+  try {
+    created = await sequelize.transaction(async (transaction) => {
+      const user = await User.create({ email: input.email, name: input.name, passwordHash, isStaff: false }, { transaction });
+      const workspace = await createOwnedWorkspace(user.id, input.workspaceName, transaction);
+      return { user, workspace };
+    });
+  } catch (e) {
+    // Two sign-ups racing for the same address: the unique index decides, and the loser is the "taken" case.
+    const winner = (e as Error).name === 'SequelizeUniqueConstraintError' ? await User.findOne({ where: { email: input.email } }) : null;
+    if (winner) return tellHolderOfSignUpAttempt(winner, request);
     throw e;
-  });
+  }
+  const { user, workspace } = created;
   await recordAudit({ action: 'account.signed_up', actor: { id: user.id, email: user.email }, workspaceId: workspace.id, targetType: 'user', targetId: user.id, request });
-  await sendVerification(user);
-  return { user, workspace };
+  afterResponse('verification mail', () => sendVerification(user));
+}
+
+/** The address has an account: mail its holder (a few times per window at most), never the visitor. */
+async function tellHolderOfSignUpAttempt(holder: User, request?: Request): Promise<void> {
+  await recordAudit({ action: 'account.signup_address_taken', targetType: 'user', targetId: holder.id, request });
+  if (!takeToken(`mail:recipient:${holder.email}`, ACCOUNT_LIMITS.mailPerRecipient).ok) return;
+  afterResponse('sign-up attempt mail', async () => {
+    await enqueueMail(signUpAttemptMail(holder, { signIn: appLink('/signin', { email: holder.email }), reset: appLink('/forgot-password') }));
+  });
 }
 
 /** Issue a fresh verification link (older unused ones stop working) and mail it. */

@@ -4,6 +4,7 @@ import { email as emailSchema, password as passwordSchema } from './schemas';
 import { Membership, User } from '@/models';
 import { BCRYPT_ROUNDS } from './signup';
 import { endSessions } from '@/lib/auth/sessions';
+import { judgePassword } from './password-strength';
 
 /**
  * Staff accounts come only from the command line (`npm run staff:add -- email`).
@@ -14,6 +15,9 @@ export async function addStaff(rawEmail: string, opts: { password?: string; name
   const email = emailSchema.parse(rawEmail);
   const password = opts.password ?? randomBytes(12).toString('base64url');
   passwordSchema.parse(password);
+  // A chosen password gets the same strength check as everyone's; a generated one is random.
+  const verdict = opts.password ? judgePassword(password, { email, name: opts.name }) : null;
+  if (verdict && !verdict.ok) throw new Error(verdict.message);
   const passwordHash = await bcrypt.hash(password, BCRYPT_ROUNDS);
   const existing = await User.findOne({ where: { email } });
   if (existing && !existing.isStaff) {

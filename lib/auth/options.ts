@@ -4,6 +4,7 @@ import { authorizeCredentials } from './credentials';
 import { authSecret } from './secret';
 import { useSecureCookies } from './cookies';
 import { SESSION_MAX_AGE_S, SessionEndedError, signInClaims, userOfSession } from './sessions';
+import { safeRedirectUrl } from '@/lib/accounts/return-path';
 
 /**
  * next-auth with e-mail and password. Sessions are signed JWT cookies (httpOnly,
@@ -52,6 +53,10 @@ export const authOptions: NextAuthOptions = {
     async session({ session, token }) {
       if (session.user) (session.user as { id?: number }).id = token.uid as number;
       return session;
+    },
+    // Only paths of this app, whatever the body, query or callback-url cookie says (no open redirect, no 500).
+    async redirect({ url, baseUrl }) {
+      return safeRedirectUrl(url, baseUrl);
     },
   },
 };

@@ -15,7 +15,7 @@ function escapeHtml(s: string): string {
   return s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
 }
 
-function layout(heading: string, paragraphs: string[], link: { href: string; label: string }, footer: string): string {
+function layout(heading: string, paragraphs: string[], link: { href: string; label: string }, footer: string, secondLink?: { href: string; label: string }): string {
   const body = paragraphs.map((p) => `<p style="margin:0 0 14px">${escapeHtml(p)}</p>`).join('');
   return `<!doctype html><html><body style="margin:0;background:#faf7f2;font-family:system-ui,sans-serif;color:#1d2330">
 <div style="max-width:520px;margin:0 auto;padding:28px 20px">
@@ -23,7 +23,7 @@ function layout(heading: string, paragraphs: string[], link: { href: string; lab
 <div style="background:#fff;border-radius:14px;padding:24px">
 <h1 style="font-size:20px;margin:0 0 14px">${escapeHtml(heading)}</h1>${body}
 <p style="margin:20px 0"><a href="${escapeHtml(link.href)}" style="background:#2f6f5e;color:#fff;padding:10px 18px;border-radius:999px;text-decoration:none;font-weight:700">${escapeHtml(link.label)}</a></p>
-<p style="margin:0;font-size:13px;color:#4a5366">Or paste this address into your browser: ${escapeHtml(link.href)}</p>
+<p style="margin:0;font-size:13px;color:#4a5366">Or paste this address into your browser: ${escapeHtml(link.href)}</p>${secondLink ? `\n<p style="margin:14px 0 0"><a href="${escapeHtml(secondLink.href)}" style="color:#2f6f5e;font-weight:700">${escapeHtml(secondLink.label)}</a></p>` : ''}
 </div><p style="font-size:12px;color:#8a91a0;margin:16px 4px">${escapeHtml(footer)}</p></div></body></html>`;
 }
 
@@ -46,6 +46,28 @@ export function passwordResetMail(to: { email: string; name: string }, link: str
     subject: 'Choose a new Partwise password',
     text: `${hello}\n\nSomeone (hopefully you) asked to choose a new password for this Partwise account:\n\n${link}\n\nThe link works for one hour and only once. If you did not ask, ignore this mail; your password stays as it is.\n`,
     html: layout('Choose a new password', [hello, 'Someone (hopefully you) asked to choose a new password for this Partwise account. The link works for one hour and only once.'], { href: link, label: 'Choose a new password' }, 'If you did not ask, ignore this mail; your password stays as it is.'),
+  };
+}
+
+/**
+ * To the holder of an address someone used on the sign-up form: nothing changed, and
+ * here is how to get in. The visitor who typed it only ever sees "check your inbox".
+ */
+export function signUpAttemptMail(to: { email: string; name: string }, links: { signIn: string; reset: string }): OutgoingMail {
+  const hello = to.name ? `Hello ${to.name},` : 'Hello,';
+  const what = `Someone just tried to create a Partwise account with this address (${to.email}). It already has an account, so no new one was made and nothing about yours changed.`;
+  return {
+    to: to.email,
+    kind: 'signup-existing',
+    subject: 'Someone tried to sign up to Partwise with your address',
+    text: `${hello}\n\n${what}\n\nIf that was you, sign in here:\n\n${links.signIn}\n\nForgot your password? Choose a new one here:\n\n${links.reset}\n\nIf it was not you, ignore this mail; your account and password stay as they are.\n`,
+    html: layout(
+      'You already have an account',
+      [hello, what],
+      { href: links.signIn, label: 'Sign in to Partwise' },
+      'If it was not you, ignore this mail; your account and password stay as they are.',
+      { href: links.reset, label: 'Forgot your password? Choose a new one' },
+    ),
   };
 }
 

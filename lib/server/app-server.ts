@@ -1,5 +1,6 @@
 import http from 'node:http';
 import { flushUsage, pendingAnswers } from '@/lib/usage';
+import { recordListenHost } from '@/lib/mail/dev';
 import { settleForwarding, trustsProxy } from './forwarding';
 import { productionSettingProblems } from './settings';
 import { jsonForBareApiErrors, settleMalformedPath } from './odd-requests';
@@ -49,6 +50,9 @@ export async function startAppServer({ port, host, dev = false }: AppServerOptio
     server.once('error', reject);
     server.listen(port, host, () => resolve());
   });
+  // Pages that must exist only on loopback-only runs (the local mail sink) read the address actually bound.
+  const bound = server.address();
+  recordListenHost(typeof bound === 'object' && bound ? bound.address : host);
 
   let stopping = false;
   const stop = async (signal: string) => {

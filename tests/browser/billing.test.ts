@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { DEMO_USERS } from '@/lib/demo/accounts';
 import { sessionCookieName } from '@/lib/auth/cookies';
+import { controlHeaders } from '@/lib/fakes/payments';
 import { User } from '@/models';
 import { appUrl, launchBrowser, screenshot } from '../helpers/browser';
 import { sessionCookie } from '../helpers/auth';
@@ -15,9 +16,11 @@ let browser: Browser;
 let context: BrowserContext;
 let page: Page;
 const fakeUrl = process.env.PAYMENTS_FAKE_URL;
+// The fake's test controls need the per-run key the test stack hands over.
+const controlKey = controlHeaders(process.env.PAYMENTS_FAKE_CONTROL_KEY);
 
 async function control(path: string) {
-  const res = await fetch(`${fakeUrl}${path}`, { method: 'POST' });
+  const res = await fetch(`${fakeUrl}${path}`, { method: 'POST', headers: controlKey });
   expect(res.ok).toBe(true);
 }
 
@@ -33,7 +36,7 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
-  if (fakeUrl) await fetch(`${fakeUrl}/_test/webhooks/resume`, { method: 'POST' }).catch(() => undefined);
+  if (fakeUrl) await fetch(`${fakeUrl}/_test/webhooks/resume`, { method: 'POST', headers: controlKey }).catch(() => undefined);
   await browser?.close();
 });
 

@@ -56,13 +56,14 @@ export async function prepareDatabase(name: string, extraEnv: Record<string, str
   return { dir, env };
 }
 
-export async function startApp(dir: string, env: NodeJS.ProcessEnv, port?: number): Promise<AppProcess> {
+/** `host` is the address to bind (a deployment binds 0.0.0.0); the test still reaches it on 127.0.0.1. */
+export async function startApp(dir: string, env: NodeJS.ProcessEnv, port?: number, host = '127.0.0.1'): Promise<AppProcess> {
   const p = port ?? (await freePort());
   const url = `http://127.0.0.1:${p}`;
   const fullEnv: NodeJS.ProcessEnv = { NEXTAUTH_URL: url, ...env, PORT: String(p) };
   const logFile = path.join(dir, 'server.log');
   const out = fs.openSync(logFile, 'a');
-  const child = spawnAppServer({ port: p, env: fullEnv, stdio: ['ignore', out, out], detached: true });
+  const child = spawnAppServer({ port: p, host, env: fullEnv, stdio: ['ignore', out, out], detached: true });
   const exited = new Promise<number | null>((resolve) => child.once('exit', (code) => resolve(code)));
   const app: AppProcess = {
     url,
@@ -79,7 +80,7 @@ export async function startApp(dir: string, env: NodeJS.ProcessEnv, port?: numbe
       }
       return exited;
     },
-    restart: () => startApp(dir, env, p),
+    restart: () => startApp(dir, env, p, host),
   };
   try {
     await waitForHttp(`${url}/api/health`, 90_000, child);

@@ -2,10 +2,15 @@ import type { Metadata } from 'next';
 import Link from 'next/link';
 import { AuthPanel } from '@/components/account/AuthPanel';
 import { SignUpForm } from '@/components/account/SignUpForm';
+import { pageActor } from '@/lib/auth/page';
+import { devMailAllowed } from '@/lib/mail/dev';
 
 export const metadata: Metadata = { title: 'Create your account' };
+// Whether the local mail sink may be linked is decided per request (bound address, viewer).
+export const dynamic = 'force-dynamic';
 
-export default function SignUpPage() {
+export default async function SignUpPage() {
+  const showMailSink = await devMailAllowed({ viewerIsStaff: async () => (await pageActor())?.isStaff === true });
   return (
     <AuthPanel
       title="Start with Partwise"
@@ -19,7 +24,7 @@ export default function SignUpPage() {
         </>
       }
     >
-      <SignUpForm />
+      <SignUpForm showMailSink={showMailSink} />
     </AuthPanel>
   );
 }

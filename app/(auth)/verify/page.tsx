@@ -3,7 +3,8 @@ import Link from 'next/link';
 import { AuthPanel } from '@/components/account/AuthPanel';
 import { EmailRequestForm } from '@/components/account/EmailRequestForm';
 import { VerifyEmail } from '@/components/account/VerifyEmail';
-import { devMailEnabled } from '@/lib/mail/dev';
+import { pageActor } from '@/lib/auth/page';
+import { devMailAllowed } from '@/lib/mail/dev';
 
 export const metadata: Metadata = { title: 'Confirm your e-mail' };
 export const dynamic = 'force-dynamic';
@@ -17,13 +18,15 @@ export default async function VerifyPage({ searchParams }: { searchParams: Promi
       </AuthPanel>
     );
   }
+  // The same rule as /dev/mail itself: never point at a page that would answer 404.
+  const showMailSink = await devMailAllowed({ viewerIsStaff: async () => (await pageActor())?.isStaff === true });
   return (
     <AuthPanel
       title={sent ? 'Check your inbox' : 'Confirm your e-mail'}
       lead={
         sent ? (
           <>
-            We sent a confirmation link to <strong className="text-ink">{email ?? 'your address'}</strong>. Open it to finish, then sign in.
+            We sent a mail to <strong className="text-ink">{email ?? 'your address'}</strong>. Open the link in it to finish, then sign in.
           </>
         ) : (
           'Lost the mail, or the link expired? We will send a fresh one.'
@@ -35,7 +38,7 @@ export default async function VerifyPage({ searchParams }: { searchParams: Promi
         </Link>
       }
     >
-      {devMailEnabled() ? (
+      {showMailSink ? (
         <p className="mb-5 rounded-lg bg-saffron-100 px-4 py-3 text-sm text-ink">
           Local run: mail goes to the local mail sink, not the internet.{' '}
           <Link href="/dev/mail" className="font-bold underline">

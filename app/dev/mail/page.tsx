@@ -3,14 +3,18 @@ import Link from 'next/link';
 import { notFound } from 'next/navigation';
 import { Logo } from '@/components/brand/Logo';
 import { readMailbox } from '@/lib/fakes/smtp';
-import { devMailEnabled, mailSinkDir } from '@/lib/mail/dev';
+import { pageActor } from '@/lib/auth/page';
+import { devMailAllowed, mailSinkDir } from '@/lib/mail/dev';
 
 export const metadata: Metadata = { title: 'Local mail sink', robots: { index: false } };
 export const dynamic = 'force-dynamic';
 
-/** Local runs only: every message the SMTP fake received, newest first, links clickable. */
+/**
+ * Loopback-only local runs, for staff or with PARTWISE_DEV_MAIL=1 (see lib/mail/dev.ts):
+ * every message the SMTP fake received, newest first, links clickable. Anywhere else a 404.
+ */
 export default async function DevMailPage({ searchParams }: { searchParams: Promise<Record<string, string | undefined>> }) {
-  if (!devMailEnabled()) notFound();
+  if (!(await devMailAllowed({ viewerIsStaff: async () => (await pageActor())?.isStaff === true }))) notFound();
   const { to } = await searchParams;
   const dir = mailSinkDir();
   const all = dir ? readMailbox(dir) : [];

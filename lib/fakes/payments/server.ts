@@ -1,6 +1,6 @@
 import http from 'node:http';
 import type { AddressInfo } from 'node:net';
-import { randomBytes } from 'node:crypto';
+import { randomBytes, timingSafeEqual } from 'node:crypto';
 import { bool, list, obj, parseForm, str, stringMap, type FormObject } from './form';
 import { checkoutPage, closedCheckoutPage, invoicePage, notFoundPage, portalView } from './pages';
 import { FakeApiError, PaymentsState, type ApiEvent } from './state';
@@ -10,14 +10,26 @@ import { WebhookSender, type DeliveryRecord } from './webhooks';
  * A small stand-in for the payment service on loopback. It answers the API subset
  * Partwise calls through the official SDK (form-encoded requests, JSON objects
  * shaped like the real ones), serves a hosted checkout page with a card form, and
- * sends signed webhook events with retries. Test-only controls live under /_test.
+ * sends signed webhook events with retries. Test-only controls live under /_test and
+ * answer only requests carrying the control key (CONTROL_KEY_HEADER), random per run
+ * and handed to the tests in the environment (PAYMENTS_FAKE_CONTROL_KEY): without it,
+ * anyone who reaches the fake could pay checkouts, replay events or end periods.
  */
+export const CONTROL_KEY_HEADER = 'x-fake-control-key';
+
+/** Headers for a /_test control call. */
+export function controlHeaders(key: string | undefined): Record<string, string> {
+  return key ? { [CONTROL_KEY_HEADER]: key } : {};
+}
+
 export interface PaymentsFakeOptions {
   port?: number;
   host?: string;
   /** The API key clients must send; a random test key when omitted. */
   secretKey?: string;
   webhookSecret?: string;
+  /** The key /_test controls require; random when omitted. */
+  controlKey?: string;
   /** Where to post events (Partwise's webhook route). */
   webhookUrl?: string;
   /** Keep records across restarts in this JSON file. */
@@ -33,6 +45,8 @@ export interface PaymentsFake {
   port: number;
   secretKey: string;
   webhookSecret: string;
+  /** Send it in CONTROL_KEY_HEADER to use the /_test controls. */
+  controlKey: string;
   state: PaymentsState;
   webhooks: WebhookSender;
   /** The next `count` API calls answer `status` (500 by default) without doing anything. */
@@ -90,6 +104,7 @@ export async function startPaymentsFake(opts: PaymentsFakeOptions = {}): Promise
   const host = opts.host ?? '127.0.0.1';
   const secretKey = opts.secretKey ?? `sk_test_${randomBytes(18).toString('hex')}`;
   const webhookSecret = opts.webhookSecret ?? `whsec_${randomBytes(24).toString('hex')}`;
+  const controlKey = opts.controlKey ?? `ctl_${randomBytes(24).toString('hex')}`;
   const merchant = opts.merchantName ?? 'Partwise';
   let baseUrl = '';
   const state = new PaymentsState(() => baseUrl, opts.stateFile);
@@ -208,7 +223,14 @@ export async function startPaymentsFake(opts: PaymentsFakeOptions = {}): Promise
     return { id: e.id, type: e.type, created: e.created, delivery: webhooks.deliveries.get(e.id) ?? null };
   }
 
+  function controlAuthorised(req: http.IncomingMessage): boolean {
+    const sent = Buffer.from(String(req.headers[CONTROL_KEY_HEADER] ?? ''));
+    const expected = Buffer.from(controlKey);
+    return sent.length === expected.length && timingSafeEqual(sent, expected);
+  }
+
   async function control(req: http.IncomingMessage, res: http.ServerResponse, path: string) {
+    if (!controlAuthorised(req)) throw new FakeApiError(401, 'authentication_error', `Test controls need the control key in the ${CONTROL_KEY_HEADER} header.`);
     const text = req.method === 'POST' ? await readBody(req) : '';
     const body = text ? (JSON.parse(text) as Record<string, unknown>) : {};
     const parts = path.split('/').filter(Boolean).slice(1); // drop "_test"
@@ -372,6 +394,7 @@ export async function startPaymentsFake(opts: PaymentsFakeOptions = {}): Promise
     port,
     secretKey,
     webhookSecret,
+    controlKey,
     state,
     webhooks,
     failNext,
@@ -383,6 +406,7 @@ export async function startPaymentsFake(opts: PaymentsFakeOptions = {}): Promise
       STRIPE_API_PORT: String(port),
       STRIPE_API_PROTOCOL: 'http',
       PAYMENTS_FAKE_URL: baseUrl,
+      PAYMENTS_FAKE_CONTROL_KEY: controlKey,
     }),
     async stop() {
       webhooks.stop();

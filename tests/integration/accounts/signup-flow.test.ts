@@ -7,6 +7,7 @@ import { POST as forgotRoute } from '@/app/api/account/password/forgot/route';
 import { POST as resetRoute } from '@/app/api/account/password/reset/route';
 import { GET as meRoute } from '@/app/api/account/route';
 import { authorizeCredentials, SIGNIN_LIMITS } from '@/lib/auth/credentials';
+import { SIGN_UP_ANSWER } from '@/lib/accounts/signup';
 import { addStaff } from '@/lib/accounts/staff';
 import { hashToken } from '@/lib/accounts/tokens';
 import { rateLimitTesting } from '@/lib/rate-limit';
@@ -26,10 +27,10 @@ describe('sign-up → verification mail → verify → sign in', () => {
 
   it('creates user, owned workspace and free plan, mails a link that verifies the address', async () => {
     const res = await signUp(person);
-    expect(res.status).toBe(201);
-    const body = await res.json();
-    expect(body.user.email).toBe('ines@example.test');
-    expect(res.headers.get('set-cookie')).toMatch(/partwise\.workspace=\d+; Path=\/; HttpOnly; SameSite=Lax/);
+    expect(res.status).toBe(202);
+    expect(await res.json()).toEqual(SIGN_UP_ANSWER);
+    // Nothing about the new account in the answer: a taken address answers the same.
+    expect(res.headers.get('set-cookie')).toBeNull();
 
     const user = (await User.findOne({ where: { email: 'ines@example.test' } }))!;
     expect(user.isStaff).toBe(false);
@@ -65,10 +66,55 @@ describe('sign-up → verification mail → verify → sign in', () => {
     expect((await me.json()).workspaces).toEqual([expect.objectContaining({ name: 'Hill Climbers', role: 'owner' })]);
   });
 
-  it('refuses the same address twice, with a field issue', async () => {
-    const res = await signUp(person);
-    expect(res.status).toBe(409);
-    expect((await res.json()).error.issues).toEqual([expect.objectContaining({ field: 'email' })]);
+  it('answers a taken address exactly like a new one, and mails the holder instead', async () => {
+    const fresh = await signUp({ ...person, email: 'someone-new@example.test' });
+    const taken = await signUp({ ...person, name: 'Not Ines', password: 'other-saddle-quartz-9', workspaceName: 'Grab' });
+    expect(taken.status).toBe(fresh.status);
+    expect(taken.status).toBe(202);
+    expect(await taken.json()).toEqual(await fresh.json());
+    expect([...taken.headers.keys()].sort()).toEqual([...fresh.headers.keys()].sort());
+
+    // The holder hears about it, with ways in; nothing about the account changed.
+    const mail = await sink.mailTo('ines@example.test', 'signup-existing');
+    expect(mail.subject).toMatch(/tried to sign up/i);
+    expect(mail.text).toContain('no new one was made');
+    expect(mail.links.map((l) => new URL(l).pathname)).toEqual(expect.arrayContaining(['/signin', '/forgot-password']));
+    expect(await User.count({ where: { email: 'ines@example.test' } })).toBe(1);
+    const user = (await User.findOne({ where: { email: 'ines@example.test' } }))!;
+    expect(await authorizeCredentials({ email: 'ines@example.test', password: person.password })).toMatchObject({ id: String(user.id) });
+    expect(await Workspace.count({ where: { name: 'Grab' } })).toBe(0);
+    expect(await AuditEvent.count({ where: { action: 'account.signup_address_taken', targetId: String(user.id) } })).toBe(1);
+    // The visitor's mail never mentions the other account: the new address got a confirmation.
+    await sink.mailTo('someone-new@example.test', 'verify-email');
+  });
+
+  it('refuses common and personal passwords with a 422 on the password field, before looking at the address', async () => {
+    const cases: [Record<string, string>, RegExp][] = [
+      [{ password: 'password1234' }, /too easy to guess/],
+      [{ password: 'qwertyuiop12' }, /too easy to guess/],
+      [{ password: 'iloveyou2026' }, /too easy to guess/],
+      [{ email: 'ines.varga@example.test', password: 'ines.varga@example.test' }, /e-mail address/],
+      [{ email: 'climber@example.test', password: 'climber-2026!' }, /e-mail address/],
+      [{ name: 'Ines Varga', email: 'iv@example.test', password: 'InesVarga-1990' }, /your name/],
+      [{ name: 'Ines Varga', email: 'iv@example.test', password: 'varga ines 2026' }, /your name/],
+    ];
+    for (const [change, why] of cases) {
+      rateLimitTesting.clear();
+      const res = await signUp({ ...person, email: 'weak-new@example.test', ...change });
+      expect(res.status, change.password).toBe(422);
+      const error = (await res.json()).error;
+      expect(error.issues).toEqual([{ field: 'password', message: expect.stringMatching(why) }]);
+      expect(error.issues[0].message).toMatch(/Choose one|Add another word|unrelated words/);
+    }
+    // A taken address gets the same refusal: the check comes before the lookup, so it reveals nothing.
+    for (const [password, why] of [['password1234', /too easy to guess/], ['ines@example.test!', /e-mail address/], ['Ines-Varga-2026', /your name/]] as const) {
+      const onTaken = await signUp({ ...person, password });
+      const onNew = await signUp({ ...person, email: 'ines@example.org', password: password.replace('example.test', 'example.org') });
+      expect([onTaken.status, onNew.status]).toEqual([422, 422]);
+      expect((await onTaken.json()).error.issues).toEqual([{ field: 'password', message: expect.stringMatching(why) }]);
+      expect((await onNew.json()).error.issues).toEqual([{ field: 'password', message: expect.stringMatching(why) }]);
+    }
+    expect(await User.count({ where: { email: ['weak-new@example.test', 'ines.varga@example.test', 'climber@example.test', 'iv@example.test', 'ines@example.org'] } })).toBe(0);
   });
 
   it('answers 422 naming each bad field', async () => {
@@ -97,15 +143,17 @@ describe('sign-up → verification mail → verify → sign in', () => {
 });
 
 describe('staff cannot sign up', () => {
-  it('refuses a staff address and never makes a staff account from a sign-up body', async () => {
+  it('answers a staff address like any other and never makes a staff account from a sign-up body', async () => {
     const { user: staff } = await addStaff('desk@partwise.test', { password: 'staff-password-1' });
-    const taken = await signUp({ name: 'Mallory', email: 'desk@partwise.test', password: 'grab-the-desk-1', workspaceName: 'Takeover' });
-    expect(taken.status).toBe(409);
+    const taken = await signUp({ name: 'Mallory', email: 'desk@partwise.test', password: 'grab-the-helm-1', workspaceName: 'Takeover' });
+    expect(taken.status).toBe(202);
+    expect(await taken.json()).toEqual(SIGN_UP_ANSWER);
+    await sink.mailTo('desk@partwise.test', 'signup-existing');
     expect((await User.findByPk(staff.id))!.isStaff).toBe(true);
     expect(await Membership.count({ where: { userId: staff.id } })).toBe(0);
 
-    const sneaky = await signUp({ name: 'Mallory', email: 'mallory@example.test', password: 'grab-the-desk-1', workspaceName: 'Takeover', isStaff: true });
-    expect(sneaky.status).toBe(201);
+    const sneaky = await signUp({ name: 'Mallory', email: 'mallory@example.test', password: 'grab-the-helm-1', workspaceName: 'Takeover', isStaff: true });
+    expect(sneaky.status).toBe(202);
     expect((await User.findOne({ where: { email: 'mallory@example.test' } }))!.isStaff).toBe(false);
   });
 
@@ -129,6 +177,12 @@ describe('failed sign-ins are limited per account and per address', () => {
     const forgot = await forgotRoute(await makeRequest('/api/account/password/forgot', { json: { email: 'kai@example.test' } }), ctx);
     expect(forgot.status).toBe(202);
     const token = linkToken(await sink.mailTo('kai@example.test', 'reset-password'), '/reset-password');
+    // A guessable new password is refused on the field and leaves the link usable.
+    for (const weak of ['password1234', 'kai@example.test-1']) {
+      const refused = await resetRoute(await makeRequest('/api/account/password/reset', { json: { token, password: weak } }), ctx);
+      expect(refused.status).toBe(422);
+      expect((await refused.json()).error.issues).toEqual([expect.objectContaining({ field: 'password', message: expect.stringMatching(/too easy to guess|e-mail address/) })]);
+    }
     const reset = await resetRoute(await makeRequest('/api/account/password/reset', { json: { token, password: 'brand-new-password' } }), ctx);
     expect(reset.status).toBe(200);
     expect(await authorizeCredentials({ email: 'kai@example.test', password: 'brand-new-password' })).toMatchObject({ email: 'kai@example.test' });

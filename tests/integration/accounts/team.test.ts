@@ -64,14 +64,22 @@ describe('invitations', () => {
     expect(missing.status).toBe(422);
     expect((await missing.json()).error.issues.map((i: { field: string }) => i.field)).toEqual(['name', 'password']);
 
-    const accepted = await acceptRoute(await makeRequest('/api/team/invitations/accept', { json: { token, name: 'Nia Rider', password: 'new-rider-pass-1' } }), none);
+    // A guessable password is refused on the password field and leaves the invitation usable.
+    for (const weak of ['nia-rider-2026', 'password1234']) {
+      const refused = await acceptRoute(await makeRequest('/api/team/invitations/accept', { json: { token, name: 'Nia Rider', password: weak } }), none);
+      expect(refused.status).toBe(422);
+      expect((await refused.json()).error.issues).toEqual([expect.objectContaining({ field: 'password', message: expect.stringMatching(/name|too easy to guess/) })]);
+    }
+    expect(await User.count({ where: { email: 'new.rider@club.test' } })).toBe(0);
+
+    const accepted = await acceptRoute(await makeRequest('/api/team/invitations/accept', { json: { token, name: 'Nia Rider', password: 'saddle-lantern-41' } }), none);
     expect(accepted.status).toBe(200);
     expect(accepted.headers.get('set-cookie')).toContain(`partwise.workspace=${lab.id}`);
     const user = (await User.findOne({ where: { email: 'new.rider@club.test' } }))!;
     expect((await Membership.findOne({ where: { userId: user.id, workspaceId: lab.id } }))!.role).toBe('member');
     expect(await Membership.count({ where: { userId: user.id } })).toBe(1);
     // The mailed link proved the address: the new account can sign in right away.
-    expect(await authorizeCredentials({ email: 'new.rider@club.test', password: 'new-rider-pass-1' })).not.toBeNull();
+    expect(await authorizeCredentials({ email: 'new.rider@club.test', password: 'saddle-lantern-41' })).not.toBeNull();
 
     const reuse = await acceptRoute(await makeRequest('/api/team/invitations/accept', { json: { token, name: 'X', password: 'another-pass-12' } }), none);
     expect(reuse.status).toBe(410);

@@ -5,6 +5,7 @@ import { POST as cancelPOST } from '@/app/api/billing/cancel/route';
 import { POST as resumePOST } from '@/app/api/billing/resume/route';
 import { assertCanPublish, workspacePlan } from '@/lib/billing/limits';
 import { AppError } from '@/lib/errors';
+import { controlHeaders } from '@/lib/fakes/payments';
 import { makeRequest } from '../../helpers/auth';
 import { SUCCESS_CARD, ownerWorkspace, startBillingStack, startCheckout, submitCard, subscribe, type BillingStack } from './stack';
 
@@ -53,7 +54,7 @@ describe('changing and ending a subscription', () => {
 
     // The period ends: the renewal invoice for Bench is paid from the credit first.
     const ref = (await sub(ws.id))!.subscriptionRef!;
-    const renewed = await fetch(`${stack.fake.url}/_test/subscriptions/${ref}/end-period`, { method: 'POST' });
+    const renewed = await fetch(`${stack.fake.url}/_test/subscriptions/${ref}/end-period`, { method: 'POST', headers: controlHeaders(stack.fake.controlKey) });
     expect(renewed.status).toBe(200);
     await stack.fake.webhooks.idle();
     list = await invoices(ws.id);
@@ -93,7 +94,7 @@ describe('changing and ending a subscription', () => {
     await assertCanPublish(ws.id);
 
     const ref = (await sub(ws.id))!.subscriptionRef!;
-    await fetch(`${stack.fake.url}/_test/subscriptions/${ref}/end-period`, { method: 'POST' });
+    await fetch(`${stack.fake.url}/_test/subscriptions/${ref}/end-period`, { method: 'POST', headers: controlHeaders(stack.fake.controlKey) });
     await stack.fake.webhooks.idle();
     expect(await sub(ws.id)).toMatchObject({ plan: 'sketch', status: 'canceled', cancelAtPeriodEnd: false });
     expect((await workspacePlan(ws.id)).id).toBe('sketch');
@@ -112,14 +113,14 @@ describe('changing and ending a subscription', () => {
     await subscribe(stack, owner.id, ws.id, 'bench');
     const oldRef = (await sub(ws.id))!.subscriptionRef!;
     await post(cancelPOST, '/api/billing/cancel', owner.id);
-    await fetch(`${stack.fake.url}/_test/subscriptions/${oldRef}/end-period`, { method: 'POST' });
+    await fetch(`${stack.fake.url}/_test/subscriptions/${oldRef}/end-period`, { method: 'POST', headers: controlHeaders(stack.fake.controlKey) });
     await stack.fake.webhooks.idle();
     await subscribe(stack, owner.id, ws.id, 'lab');
     // The old subscription's last event arrives again, late.
     const late = stack.fake.state.events.filter((e) => e.type === 'customer.subscription.deleted' && (e.data.object as { id: string }).id === oldRef).at(-1)!;
     const copy = { ...late, id: `${late.id}_late` };
     stack.fake.state.events.push(copy);
-    await fetch(`${stack.fake.url}/_test/events/${copy.id}/replay`, { method: 'POST' });
+    await fetch(`${stack.fake.url}/_test/events/${copy.id}/replay`, { method: 'POST', headers: controlHeaders(stack.fake.controlKey) });
     expect(await sub(ws.id)).toMatchObject({ plan: 'lab', status: 'active' });
   });
 

@@ -5,7 +5,7 @@ import path from 'node:path';
 import type { AddressInfo } from 'node:net';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import Stripe from 'stripe';
-import { parseForm, startPaymentsFake, type PaymentsFake } from '@/lib/fakes/payments';
+import { controlHeaders, parseForm, startPaymentsFake, type PaymentsFake } from '@/lib/fakes/payments';
 import { addMonth, luhnValid } from '@/lib/fakes/payments/state';
 
 /** The fake on its own: request decoding, auth, idempotency, webhook retries and controls. */
@@ -126,19 +126,55 @@ describe('the fake as an HTTP service', () => {
     expect(fake.webhooks.deliveries.get(event.id)!.state).toBe('failed');
     expect(fake.webhooks.deliveries.get(event.id)!.attempts).toHaveLength(4);
     failFirst = 0;
-    const replay = await (await fetch(`${fake.url}/_test/events/${event.id}/replay`, { method: 'POST' })).json();
+    const replay = await (await fetch(`${fake.url}/_test/events/${event.id}/replay`, { method: 'POST', headers: controlHeaders(fake.controlKey) })).json();
     expect(replay.attempt.status).toBe(200);
     expect(fake.webhooks.deliveries.get(event.id)!.state).toBe('delivered');
   });
 
+  it('refuses every test control without the per-run control key, doing nothing', async () => {
+    const customer = await sdk().customers.create({ email: 'locked@club.test' });
+    const event = fake.state.events.find((e) => (e.data.object as { id: string }).id === customer.id)!;
+    const price = await sdk().prices.create({ currency: 'eur', unit_amount: 500, recurring: { interval: 'month' }, product_data: { name: 'Locked plan' } });
+    const session = await sdk().checkout.sessions.create({ mode: 'subscription', customer: customer.id, line_items: [{ price: price.id, quantity: 1 }], success_url: 'http://x.test/ok' });
+    const card = JSON.stringify({ number: '4242 4242 4242 4242', expiry: '12 / 34', cvc: '123' });
+    const calls: [string, string, string?][] = [
+      ['GET', '/_test/events'],
+      ['GET', `/_test/events/${event.id}`],
+      ['POST', `/_test/events/${event.id}/replay`],
+      ['POST', '/_test/fail-next', JSON.stringify({ count: 5 })],
+      ['POST', '/_test/slow-next', JSON.stringify({ ms: 5000 })],
+      ['POST', '/_test/webhooks/pause'],
+      ['POST', `/_test/checkout/${session.id}/pay`, card],
+      ['POST', '/_test/subscriptions/sub_anything/end-period'],
+    ];
+    const wrongKeys: Record<string, string>[] = [{}, controlHeaders('ctl_guess'), controlHeaders(`${fake.controlKey}x`), { authorization: `Bearer ${fake.secretKey}` }];
+    for (const [method, path, body] of calls) {
+      for (const headers of wrongKeys) {
+        const res = await fetch(`${fake.url}${path}`, { method, headers, body });
+        expect(res.status, `${method} ${path} with ${JSON.stringify(headers)}`).toBe(401);
+        expect(JSON.stringify(await res.json())).not.toContain('"data"');
+      }
+    }
+    // Nothing happened: the checkout is still open, API calls neither fail nor wait, webhooks flow.
+    expect(fake.state.presentSession(fake.state.session(session.id)).status).toBe('open');
+    const started = Date.now();
+    await sdk().customers.create({ email: 'after@club.test' });
+    expect(Date.now() - started).toBeLessThan(4000);
+    expect(await fake.webhooks.idle(5000)).toBe(true);
+    // With the key the same control answers.
+    expect((await fetch(`${fake.url}/_test/events`, { headers: controlHeaders(fake.controlKey) })).status).toBe(200);
+    expect(fake.env().PAYMENTS_FAKE_CONTROL_KEY).toBe(fake.controlKey);
+    expect(fake.controlKey).toMatch(/^ctl_[0-9a-f]{48}$/);
+  });
+
   it('test controls: failing and slow next calls, event list', async () => {
-    await fetch(`${fake.url}/_test/fail-next`, { method: 'POST', body: JSON.stringify({ count: 1, status: 503 }) });
+    await fetch(`${fake.url}/_test/fail-next`, { method: 'POST', headers: controlHeaders(fake.controlKey), body: JSON.stringify({ count: 1, status: 503 }) });
     await expect(sdk().customers.create({})).rejects.toMatchObject({ statusCode: 503 });
-    await fetch(`${fake.url}/_test/slow-next`, { method: 'POST', body: JSON.stringify({ ms: 300 }) });
+    await fetch(`${fake.url}/_test/slow-next`, { method: 'POST', headers: controlHeaders(fake.controlKey), body: JSON.stringify({ ms: 300 }) });
     const started = Date.now();
     await sdk().customers.create({});
     expect(Date.now() - started).toBeGreaterThanOrEqual(280);
-    const list = await (await fetch(`${fake.url}/_test/events`)).json();
+    const list = await (await fetch(`${fake.url}/_test/events`, { headers: controlHeaders(fake.controlKey) })).json();
     expect(list.data.length).toBeGreaterThan(3);
     expect(list.data[0]).toHaveProperty('delivery');
   });

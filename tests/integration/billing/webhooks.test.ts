@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import Stripe from 'stripe';
 import { AuditEvent, Invoice, MailMessage, Subscription, WebhookEvent } from '@/models';
 import { POST as webhookPOST } from '@/app/api/webhooks/payments/route';
-import { signPayload } from '@/lib/fakes/payments';
+import { controlHeaders, signPayload } from '@/lib/fakes/payments';
 import { ownerWorkspace, startBillingStack, subscribe, type BillingStack } from './stack';
 
 let stack: BillingStack;
@@ -78,7 +78,7 @@ describe('webhook route', () => {
 
     // Replays through the fake's control endpoint: same id, fresh signature.
     for (const e of mine) {
-      const res = await fetch(`${stack.fake.url}/_test/events/${e.id}/replay`, { method: 'POST' });
+      const res = await fetch(`${stack.fake.url}/_test/events/${e.id}/replay`, { method: 'POST', headers: controlHeaders(stack.fake.controlKey) });
       expect((await res.json()).attempt.status).toBe(200);
     }
     // Duplicates delivered directly, several at once.
@@ -89,7 +89,7 @@ describe('webhook route', () => {
 
     expect(await snapshot(ws.id)).toEqual(before);
     expect(await MailMessage.count({ where: { to: owner.email, kind: 'receipt' } })).toBe(1);
-    const delivery = (await (await fetch(`${stack.fake.url}/_test/events/${mine[0].id}`)).json()).delivery;
+    const delivery = (await (await fetch(`${stack.fake.url}/_test/events/${mine[0].id}`, { headers: controlHeaders(stack.fake.controlKey) })).json()).delivery;
     expect(delivery.attempts.map((a: { reason: string }) => a.reason)).toEqual(['send', 'replay']);
   });
 

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { extractLinks } from '@/lib/fakes/smtp';
-import { appLink, invitationMail, verificationMail } from '@/lib/mail/templates';
+import { appLink, invitationMail, signUpAttemptMail, verificationMail } from '@/lib/mail/templates';
 import { signUpSchema } from '@/lib/accounts/schemas';
 
 describe('account mail templates', () => {
@@ -23,6 +23,18 @@ describe('account mail templates', () => {
     const mail = verificationMail({ email: 'a@example.test', name: 'Ada' }, 'http://h/verify?token=t');
     expect(mail).toMatchObject({ to: 'a@example.test', kind: 'verify-email' });
     expect(mail.text).toMatch(/^Hello Ada,/);
+  });
+});
+
+describe('sign-up attempt mail', () => {
+  it('tells the holder nothing changed and links to sign-in and a new password', () => {
+    const mail = signUpAttemptMail({ email: 'ada@example.test', name: 'Ada <Admin>' }, { signIn: 'http://h/signin?email=ada%40example.test', reset: 'http://h/forgot-password' });
+    expect(mail).toMatchObject({ to: 'ada@example.test', kind: 'signup-existing' });
+    expect(mail.subject).toMatch(/tried to sign up/);
+    expect(mail.text).toMatch(/^Hello Ada <Admin>,/);
+    expect(mail.text).toContain('no new one was made and nothing about yours changed');
+    expect(mail.html).toContain('Ada &lt;Admin&gt;');
+    expect(extractLinks(mail.text, mail.html).sort()).toEqual(['http://h/forgot-password', 'http://h/signin?email=ada%40example.test']);
   });
 });
 
