@@ -149,7 +149,10 @@ export interface MaskedBatchScores {
  * Score n rows (n·d row-major, original units) with blank fields. `masks`: one mask per
  * row (Uint32Array, bit j = field j observed), one mask for the whole batch, or omitted
  * = a field is observed when its value is not NaN. Unobserved entries are never read.
- * Per row: one cache look-up when the mask changes, no allocation.
+ * Rows are validated in order first (the first bad row is the one named); then, when the
+ * masks vary, they are scored grouped by mask (a counting sort), so each distinct subset
+ * is looked up and factorised once per batch even when there are more than the cache
+ * holds. No allocation per row.
  */
 export function scoreRowsMasked(
   model: ScorableModel,
@@ -170,31 +173,55 @@ export function scoreRowsMasked(
     best: new Int32Array(n),
     masks: new Uint32Array(n),
   };
+  // pass 1, in row order: masks, validation, distinct subsets
+  const ids = new Map<number, number>();
+  const groupOf = new Uint32Array(n);
+  for (let r = 0; r < n; r++) {
+    const mask = masks === undefined ? nanMask(rows, r * d, d) : typeof masks === 'number' ? masks >>> 0 : masks[r];
+    if (mask === 0) throw new MixtureError('NO_FIELDS', `Row ${r + 1} has no field with a value; enter at least one.`);
+    if ((mask & ~s.fullMask) >>> 0 !== 0) throw new MixtureError('BAD_INPUT', `Row ${r + 1}'s mask ${mask} names fields beyond the model's ${d}.`);
+    for (let j = 0; j < d; j++) {
+      if ((mask >>> j) & 1 && !Number.isFinite(rows[r * d + j])) {
+        throw new MixtureError('BAD_INPUT', `Row ${r + 1}, value ${fieldName(model, j)} is not a finite number.`);
+      }
+    }
+    out.masks[r] = mask;
+    let id = ids.get(mask);
+    if (id === undefined) {
+      id = ids.size;
+      ids.set(mask, id);
+    }
+    groupOf[r] = id;
+  }
+  const order = ids.size > 1 ? groupOrder(groupOf, ids.size, n) : null;
   let lastMask = -1;
   let f: SubsetFactors | null = null;
   let q: QuantileSummary | null = null;
-  for (let r = 0; r < n; r++) {
-    const mask = masks === undefined ? nanMask(rows, r * d, d) : typeof masks === 'number' ? masks >>> 0 : masks[r];
+  for (let t = 0; t < n; t++) {
+    const r = order === null ? t : order[t];
+    const mask = out.masks[r];
     if (mask !== lastMask) {
-      if (mask === 0) throw new MixtureError('NO_FIELDS', `Row ${r + 1} has no field with a value; enter at least one.`);
       f = subsetFactors(s, mask);
       q = typicalityQuantiles(model, mask, opts.sample).quantiles;
       lastMask = mask;
     }
-    const sub = f!;
-    for (let a = 0; a < sub.m; a++) {
-      if (!Number.isFinite(rows[r * d + sub.idx[a]])) {
-        throw new MixtureError('BAD_INPUT', `Row ${r + 1}, value ${fieldName(model, sub.idx[a])} is not a finite number.`);
-      }
-    }
-    out.masks[r] = mask;
-    scoreMaskedInto(s, sub, rows, r, out.logDensity, out.probabilities, r);
+    scoreMaskedInto(s, f!, rows, r, out.logDensity, out.probabilities, r);
     out.typicality[r] = typicalityOf(q!, out.logDensity[r]);
     let b = 0;
     for (let c = 1; c < k; c++) if (out.probabilities[r * k + c] > out.probabilities[r * k + b]) b = c;
     out.best[r] = b;
   }
   return out;
+}
+
+/** Row indices grouped by group id (stable counting sort). */
+function groupOrder(groupOf: Uint32Array, groups: number, n: number): Uint32Array {
+  const start = new Uint32Array(groups + 1);
+  for (let r = 0; r < n; r++) start[groupOf[r] + 1]++;
+  for (let g = 0; g < groups; g++) start[g + 1] += start[g];
+  const order = new Uint32Array(n);
+  for (let r = 0; r < n; r++) order[start[groupOf[r]]++] = r;
+  return order;
 }
 
 function nanMask(x: Float64Array, off: number, d: number): number {

@@ -157,6 +157,27 @@ describe('the subset cache', () => {
     expect(new Set(cases.map((c) => c.observed.join(','))).size).toBeGreaterThan(SUBSET_CACHE_SIZE);
   });
 
+  it('a batch with more distinct masks than the cache holds gives the single-row numbers', () => {
+    const n = cases.length;
+    const x = new Float64Array(n * d).fill(NaN);
+    cases.forEach((c, r) => c.observed.forEach((j) => (x[r * d + j] = rows[c.row][j])));
+    const got = scoreRowsMasked(model, x, n); // masks from the NaNs
+    cases.forEach((c, r) => {
+      const one = scoreRowPartial(model, withBlanks(rows[c.row], c.observed));
+      expect(got.masks[r]).toBe(maskOf(c.observed));
+      expect(got.logDensity[r]).toBe(one.logDensity);
+      expect(Array.from(got.probabilities.subarray(r * 3, r * 3 + 3))).toEqual(one.probabilities);
+      expect(got.typicality[r]).toBe(one.typicality);
+    });
+    // the first bad row in row order is the one named, whatever the grouping
+    const bad = x.slice();
+    const badMasks = Uint32Array.from(got.masks);
+    badMasks[200] = 0;
+    badMasks[100] = 1;
+    bad[100 * d] = Infinity;
+    expect(() => scoreRowsMasked(model, bad, n, badMasks)).toThrow(/^Row 101, value 1 /);
+  });
+
   it('stays bounded', () => {
     for (const c of cases) scoreRowPartial(model, withBlanks(rows[c.row], c.observed));
     expect(prepareMaskedScorer(model).subsets.size).toBeLessThanOrEqual(SUBSET_CACHE_SIZE);
