@@ -20,9 +20,17 @@
  * component's mean in that component's marginal standard deviations, and a band key.
  */
 import { MixtureError } from './errors';
-import { type FieldValue, maskOfValues } from './partial';
 import type { ScorableModel } from './score';
-import { forwardSolve, gatherScaled, logJointsInto, prepareMaskedScorer, subsetFactors } from './subsets';
+import {
+  forwardSolve,
+  gatherScaled,
+  logJointsInto,
+  type MaskedScorer,
+  prepareMaskedScorer,
+  rowMask,
+  type SubsetFactors,
+  subsetFactors,
+} from './subsets';
 
 /** Coarse distance words the UI translates: z < −2, −2 ≤ z < −1, −1 ≤ z ≤ 1, 1 < z ≤ 2, z > 2. */
 export type DistanceBand = 'well_below' | 'below' | 'typical' | 'above' | 'well_above';
@@ -74,10 +82,18 @@ export interface ReasonOptions {
  * Best = the most probable component over the observed fields (scoreRowPartial's best);
  * runner-up = the next by posterior (lowest index on ties).
  */
-export function explainRow(model: ScorableModel, values: readonly FieldValue[], opts: ReasonOptions = {}): RowReason {
-  const mask = maskOfValues(model, values);
+export function explainRow(model: ScorableModel, values: readonly (number | null | undefined)[], opts: ReasonOptions = {}): RowReason {
   const s = prepareMaskedScorer(model);
-  const f = subsetFactors(s, mask);
+  return explainWith(s, subsetFactors(s, rowMask(model, s, values)), values, opts);
+}
+
+/** explainRow on an already validated row and its subset (shared with scoreRowPartial). */
+export function explainWith(
+  s: MaskedScorer,
+  f: SubsetFactors,
+  values: readonly (number | null | undefined)[],
+  opts: ReasonOptions = {},
+): RowReason {
   const { k, d } = s;
   const m = f.m;
   gatherScaled(values as ArrayLike<number>, 0, f.idx, m, s.scaled, s.center, s.scale, s.row);

@@ -13,7 +13,8 @@ import { MixtureError } from './errors';
 import { posteriorPass } from './estep';
 import { DEFAULT_UNUSUAL_BELOW, type QuantileSummary, type ScorableModel, typicalityOf } from './score';
 import { defaultTypicalitySample, subsetQuantiles, type TypicalitySample } from './sample';
-import { gatherScaled, type MaskedScorer, prepareMaskedScorer, type SubsetFactors, subsetFactors } from './subsets';
+import { explainWith, type RowReason } from './breakdown';
+import { fieldLabel, gatherScaled, type MaskedScorer, prepareMaskedScorer, rowMask, type SubsetFactors, subsetFactors } from './subsets';
 
 /** A field's value: a finite number, or null/undefined for "left blank". */
 export type FieldValue = number | null | undefined;
@@ -26,6 +27,8 @@ export interface PartialScoreOptions {
   unusualBelow?: number;
   /** the version's stored typicality sample; default: the model's own default sample (sample.ts) */
   sample?: TypicalitySample;
+  /** also return the log-odds breakdown (`reason`, see breakdown.ts) */
+  explain?: boolean;
 }
 
 export interface PartialRowScore {
@@ -44,31 +47,13 @@ export interface PartialRowScore {
   mask: number;
   /** all fields observed (then every number equals scoreRow's) */
   complete: boolean;
-}
-
-function fieldName(model: ScorableModel, j: number): string {
-  const names = (model as { features?: { name?: unknown }[] }).features;
-  const n = names?.[j]?.name;
-  return typeof n === 'string' && n ? `${j + 1} (${n})` : `${j + 1}`;
+  /** with `explain: true`: why best and not the runner-up (explainRow's answer) */
+  reason?: RowReason;
 }
 
 /** Mask of a row given as values with null/undefined for blanks; validates the numbers. */
 export function maskOfValues(model: ScorableModel, values: readonly FieldValue[]): number {
-  const s = prepareMaskedScorer(model);
-  if (!Array.isArray(values) || values.length !== s.d) {
-    throw new MixtureError('BAD_INPUT', `Expected ${s.d} values (null for a blank), got ${Array.isArray(values) ? values.length : 'none'}.`);
-  }
-  let mask = 0;
-  for (let j = 0; j < s.d; j++) {
-    const v = values[j];
-    if (v === null || v === undefined) continue;
-    if (typeof v !== 'number' || !Number.isFinite(v)) {
-      throw new MixtureError('BAD_INPUT', `Value ${fieldName(model, j)} is not a finite number (leave it null for a blank).`);
-    }
-    mask = (mask | (2 ** j)) >>> 0;
-  }
-  if (mask === 0) throw new MixtureError('NO_FIELDS', 'No field has a value; enter at least one field to get an answer.');
-  return mask;
+  return rowMask(model, prepareMaskedScorer(model), values);
 }
 
 /** Which fields a mask uses, as booleans in feature order. */
@@ -87,6 +72,12 @@ export function typicalityQuantiles(
   const s = prepareMaskedScorer(model);
   if (mask >>> 0 === s.fullMask) return { quantiles: model.training.logDensityQuantiles, reference: 'training' };
   return { quantiles: subsetQuantiles(model, sample ?? defaultTypicalitySample(model), mask), reference: 'sample' };
+}
+
+function quantilesFor(model: ScorableModel, s: MaskedScorer, f: SubsetFactors, sample: TypicalitySample | undefined): QuantileSummary {
+  if (f.mask === s.fullMask) return model.training.logDensityQuantiles;
+  const from = sample ?? defaultTypicalitySample(model);
+  return f.quantiles.get(from) ?? subsetQuantiles(model, from, f.mask);
 }
 
 /**
@@ -115,26 +106,28 @@ export function scoreMaskedInto(
  * density, typicality and best are exactly scoreRow's.
  */
 export function scoreRowPartial(model: ScorableModel, values: readonly FieldValue[], opts: PartialScoreOptions = {}): PartialRowScore {
-  const mask = maskOfValues(model, values);
   const s = prepareMaskedScorer(model);
+  const mask = rowMask(model, s, values);
   const f = subsetFactors(s, mask);
   scoreMaskedInto(s, f, values as ArrayLike<number>, 0, s.density, s.resp, 0);
   const logDensity = s.density[0];
   let best = 0;
   for (let c = 1; c < s.k; c++) if (s.resp[c] > s.resp[best]) best = c;
-  const { quantiles, reference } = typicalityQuantiles(model, mask, opts.sample);
-  const typicality = typicalityOf(quantiles, logDensity);
-  return {
-    probabilities: Array.from(s.resp),
+  const probabilities = Array.from(s.resp);
+  const typicality = typicalityOf(quantilesFor(model, s, f, opts.sample), logDensity);
+  const score: PartialRowScore = {
+    probabilities,
     logDensity,
     typicality,
-    typicalityReference: reference,
+    typicalityReference: mask === s.fullMask ? 'training' : 'sample',
     best,
     unusual: typicality < (opts.unusualBelow ?? DEFAULT_UNUSUAL_BELOW),
     used: usedFields(mask, s.d),
     mask,
     complete: mask === s.fullMask,
   };
+  if (opts.explain) score.reason = explainWith(s, f, values);
+  return score;
 }
 
 export interface MaskedBatchScores {
@@ -182,7 +175,7 @@ export function scoreRowsMasked(
     if ((mask & ~s.fullMask) >>> 0 !== 0) throw new MixtureError('BAD_INPUT', `Row ${r + 1}'s mask ${mask} names fields beyond the model's ${d}.`);
     for (let j = 0; j < d; j++) {
       if ((mask >>> j) & 1 && !Number.isFinite(rows[r * d + j])) {
-        throw new MixtureError('BAD_INPUT', `Row ${r + 1}, value ${fieldName(model, j)} is not a finite number.`);
+        throw new MixtureError('BAD_INPUT', `Row ${r + 1}, value ${fieldLabel(model, j)} is not a finite number.`);
       }
     }
     out.masks[r] = mask;
@@ -202,7 +195,7 @@ export function scoreRowsMasked(
     const mask = out.masks[r];
     if (mask !== lastMask) {
       f = subsetFactors(s, mask);
-      q = typicalityQuantiles(model, mask, opts.sample).quantiles;
+      q = quantilesFor(model, s, f, opts.sample);
       lastMask = mask;
     }
     scoreMaskedInto(s, f!, rows, r, out.logDensity, out.probabilities, r);

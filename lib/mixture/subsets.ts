@@ -289,3 +289,31 @@ export function forwardSolve(z: Float64Array, m: number, c: number, means: Float
     y[i] = t / chol[lo + i * m + i];
   }
 }
+
+/** "2 (name)" when the model carries feature names, else "2": for error messages. */
+export function fieldLabel(model: ScorableModel, j: number): string {
+  const names = (model as { features?: { name?: unknown }[] }).features;
+  const n = names?.[j]?.name;
+  return typeof n === 'string' && n ? `${j + 1} (${n})` : `${j + 1}`;
+}
+
+/**
+ * Mask of a row given as values in feature order with null/undefined for blanks;
+ * validates length and numbers. Throws BAD_INPUT, or NO_FIELDS when nothing is given.
+ */
+export function rowMask(model: ScorableModel, s: MaskedScorer, values: readonly (number | null | undefined)[]): number {
+  if (!Array.isArray(values) || values.length !== s.d) {
+    throw new MixtureError('BAD_INPUT', `Expected ${s.d} values (null for a blank), got ${Array.isArray(values) ? values.length : 'none'}.`);
+  }
+  let mask = 0;
+  for (let j = 0; j < s.d; j++) {
+    const v = values[j];
+    if (v === null || v === undefined) continue;
+    if (typeof v !== 'number' || !Number.isFinite(v)) {
+      throw new MixtureError('BAD_INPUT', `Value ${fieldLabel(model, j)} is not a finite number (leave it null for a blank).`);
+    }
+    mask = (mask | (2 ** j)) >>> 0;
+  }
+  if (mask === 0) throw new MixtureError('NO_FIELDS', 'No field has a value; enter at least one field to get an answer.');
+  return mask;
+}

@@ -200,6 +200,20 @@ describe('the chain-rule decomposition for full covariance', () => {
   });
 });
 
+describe('the reason inside a score', () => {
+  it('scoreRowPartial with explain gives explainRow\'s answer, and nothing without it', () => {
+    const rng = new SeededRandom(21);
+    const model = randomModel(rng, 3, 5, 'full', true);
+    for (let t = 0; t < 20; t++) {
+      const values = withBlanks(randomRow(rng, model), randomObserved(rng, 5));
+      const s = scoreRowPartial(model, values, { explain: true });
+      expect(s.reason).toEqual(explainRow(model, values));
+      expect(s.reason!.best).toBe(s.best);
+      expect(scoreRowPartial(model, values).reason).toBeUndefined();
+    }
+  });
+});
+
 describe('distances and words', () => {
   it('band edges: −2 and −1 go inward, ±1 is typical, 2 is above', () => {
     expect([-3, -2.0001, -2, -1.5, -1, 0, 1, 1.5, 2, 2.0001].map(distanceBand)).toEqual([
