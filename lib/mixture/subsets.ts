@@ -68,6 +68,8 @@ export interface MaskedScorer {
   /** original-units means (K·d) */
   meansOriginal: Float64Array;
   subsets: Map<number, SubsetFactors>;
+  /** the most recently used subset (already the newest in the LRU order) */
+  last: SubsetFactors | null;
   /** reused single-row buffers: gathered scaled row, kernel scratch, density, posteriors, log joints, two solves */
   row: Float64Array;
   scratch: Float64Array;
@@ -127,6 +129,7 @@ export function prepareMaskedScorer(model: ScorableModel): MaskedScorer {
     sd,
     meansOriginal,
     subsets: new Map(),
+    last: null,
     row: new Float64Array(d),
     scratch: new Float64Array(scratchLength(k, d)),
     density: new Float64Array(1),
@@ -158,10 +161,12 @@ export function maskSize(mask: number): number {
 /** Cached factors of one subset (LRU refresh on every hit). Throws NO_FIELDS for the empty mask. */
 export function subsetFactors(s: MaskedScorer, mask: number): SubsetFactors {
   const key = mask >>> 0;
+  if (s.last !== null && s.last.mask === key) return s.last;
   const hit = s.subsets.get(key);
   if (hit) {
     s.subsets.delete(key);
     s.subsets.set(key, hit);
+    s.last = hit;
     return hit;
   }
   if (key === 0) throw new MixtureError('NO_FIELDS', 'No field has a value; enter at least one field to get an answer.');
@@ -170,6 +175,7 @@ export function subsetFactors(s: MaskedScorer, mask: number): SubsetFactors {
   }
   const f = buildSubset(s, key);
   s.subsets.set(key, f);
+  s.last = f;
   if (s.subsets.size > SUBSET_CACHE_SIZE) s.subsets.delete(s.subsets.keys().next().value as number);
   return f;
 }
