@@ -2,7 +2,7 @@
  * Scoring rows with blank fields, exactly: each component's marginal over the observed
  * fields (sub-vector of the mean, sub-matrix of the covariance) gives the posterior and
  * the log density over those fields; nothing is imputed. See subsets.ts for the factors
- * and README.md ("Blank fields") for the contract.
+ * and README.md ("Scoring with blank fields") for the contract.
  *
  * Typicality: a complete row is read against the training rows' quantiles (exactly as
  * scoreRow does); a partial row against the quantiles of the same marginal on the
