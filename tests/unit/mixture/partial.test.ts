@@ -199,6 +199,15 @@ describe('bad input', () => {
     expect(() => scoreRowsMasked(model, Float64Array.of(1, NaN, 3), 1, 0b011)).toThrow(/Row 1, value 2 /);
     expect(codeOf(() => scoreRowsMasked(model, Float64Array.of(1, 2, 3), 1, 0b1000))).toBe('BAD_INPUT');
   });
+  it('models wider than a 32-bit mask are refused with a clear message', () => {
+    const wide = randomModel(new SeededRandom(2), 2, 33, 'spherical', false);
+    expect(() => scoreRowPartial(wide, wide.means[0])).toThrow(/up to 32 fields/);
+    const widest = randomModel(new SeededRandom(3), 2, 32, 'spherical', false);
+    const row: (number | null)[] = widest.means[1].slice();
+    row[31] = null;
+    expect(scoreRowPartial(widest, row).used.filter(Boolean)).toHaveLength(31);
+    expect(scoreRowPartial(widest, widest.means[1]).complete).toBe(true);
+  });
 });
 
 describe('typicality sample', () => {
