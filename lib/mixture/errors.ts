@@ -9,7 +9,8 @@ export type MixtureErrorCode =
   | 'EMPTY_COMPONENT' // a component's soft count fell to ~0 during EM
   | 'NOT_POSITIVE_DEFINITE' // a covariance could not be factorised
   | 'CANCELLED' // shouldStop() returned true
-  | 'BAD_MODEL'; // model JSON failed validation
+  | 'BAD_MODEL' // model JSON failed validation
+  | 'NO_FIELDS'; // a partial row with no observed field
 
 export class MixtureError extends Error {
   readonly code: MixtureErrorCode;

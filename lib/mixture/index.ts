@@ -44,3 +44,40 @@ export {
 } from './model-json';
 export { SeededRandom } from './prng';
 export { parseNumericTable, parseNumber, type NumericTable } from './table';
+export {
+  scoreRowPartial,
+  scoreRowsMasked,
+  maskOfValues,
+  usedFields,
+  typicalityQuantiles,
+  type FieldValue,
+  type PartialRowScore,
+  type PartialScoreOptions,
+  type MaskedBatchScores,
+  type TypicalityReference,
+} from './partial';
+export { fullMaskOf, maskSize, MAX_MASK_FIELDS, SUBSET_CACHE_SIZE } from './subsets';
+export {
+  typicalitySample,
+  defaultTypicalitySample,
+  subsetQuantiles,
+  sampleLogDensities,
+  encodeTypicalitySample,
+  decodeTypicalitySample,
+  DEFAULT_SAMPLE_SIZE,
+  DEFAULT_SAMPLE_SEED,
+  SAMPLE_FORMAT,
+  SAMPLE_VERSION,
+  type TypicalitySample,
+  type TypicalitySampleJson,
+} from './sample';
+export {
+  explainRow,
+  distanceBand,
+  DISTANCE_BANDS,
+  type DistanceBand,
+  type FieldReason,
+  type RowReason,
+  type ReasonOptions,
+  type Decomposition,
+} from './breakdown';
