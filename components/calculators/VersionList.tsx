@@ -2,6 +2,7 @@
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import { ErrorNote } from '@/components/studio/StudioPage';
+import { formatDateTime } from '@/lib/format';
 import { callApi, type ApiFailure } from './api';
 
 interface Version {
@@ -55,7 +56,7 @@ export function VersionList({ embedId, versions, activeVersionId, models, curren
                 )}
               </td>
               <td className="py-2 pr-3">{v.modelName}</td>
-              <td className="py-2 pr-3 text-ink-soft">{new Date(v.createdAt).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' })}</td>
+              <td className="py-2 pr-3 text-ink-soft">{formatDateTime(v.createdAt)}</td>
               <td className="hidden py-2 pr-3 font-mono text-xs text-ink-faint md:table-cell" title={v.checksum}>{v.checksum.slice(0, 12)}…</td>
               <td className="py-2 text-right">
                 {v.id === activeVersionId ? (

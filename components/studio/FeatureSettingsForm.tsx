@@ -4,7 +4,7 @@ import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import type { DatasetColumn } from '@/models/Dataset';
 import { api, ApiError } from './client-api';
-import { num } from './format';
+import { formatNumber } from '@/lib/format';
 import { ErrorNote } from './StudioPage';
 
 interface Row {
@@ -86,7 +86,7 @@ export function FeatureSettingsForm({ datasetId, columns }: { datasetId: number;
                   {issueFor(i, 'inputMax') && <p className="pw-field-error">{issueFor(i, 'inputMax')}</p>}
                 </td>
                 <td className="py-1.5 pt-3.5 text-xs text-ink-faint tabular-nums">
-                  {num(r.min)} – {num(r.max)}
+                  {formatNumber(r.min)} – {formatNumber(r.max)}
                 </td>
               </tr>
             ))}

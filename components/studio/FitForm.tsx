@@ -4,7 +4,7 @@ import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import type { DatasetColumn } from '@/models/Dataset';
 import { api, ApiError } from './client-api';
-import { STRUCTURE_HELP } from './format';
+import { STRUCTURE_HELP } from './structures';
 import { ErrorNote } from './StudioPage';
 
 const STRUCTURES = ['full', 'diagonal', 'spherical', 'tied'] as const;

@@ -3,7 +3,7 @@
 import Link from 'next/link';
 import { useState } from 'react';
 import { api } from './client-api';
-import { num } from './format';
+import { formatFixed as num } from '@/lib/format';
 import { FitStatusPill } from './FitStatusPill';
 
 export interface ProgressFit {

@@ -7,7 +7,7 @@ import type { FitView } from '@/lib/fitting/views';
 import { clusterColor } from '@/lib/fitting/palette';
 import { api, ApiError } from './client-api';
 import { FitProgressPanel, type ProgressFit } from './FitProgressPanel';
-import { num } from './format';
+import { formatCount, formatFixed } from '@/lib/format';
 import { ReviewPanel } from './ReviewPanel';
 import { ErrorNote, Section } from './StudioPage';
 
@@ -99,11 +99,11 @@ function CandidateTable({ candidates, chosen, onChoose }: { candidates: Candidat
                 </td>
               ) : (
                 <>
-                  <td className="py-1.5 pr-3 text-right tabular-nums">{num(c.bic, 1)}</td>
-                  <td className="py-1.5 pr-3 text-right tabular-nums text-ink-soft">{best && c.bic !== null && best.bic !== null ? (c.rank === 1 ? 'best' : `+${num(c.bic - best.bic, 1)}`) : '—'}</td>
-                  <td className="py-1.5 pr-3 text-right tabular-nums">{num(c.aic, 1)}</td>
-                  <td className="py-1.5 pr-3 text-right tabular-nums">{num(c.logLikelihood, 1)}</td>
-                  <td className="py-1.5 pr-3 text-right tabular-nums">{c.parameters}</td>
+                  <td className="py-1.5 pr-3 text-right tabular-nums">{formatFixed(c.bic, 1)}</td>
+                  <td className="py-1.5 pr-3 text-right tabular-nums text-ink-soft">{best && c.bic !== null && best.bic !== null ? (c.rank === 1 ? 'best' : `+${formatFixed(c.bic - best.bic, 1)}`) : '—'}</td>
+                  <td className="py-1.5 pr-3 text-right tabular-nums">{formatFixed(c.aic, 1)}</td>
+                  <td className="py-1.5 pr-3 text-right tabular-nums">{formatFixed(c.logLikelihood, 1)}</td>
+                  <td className="py-1.5 pr-3 text-right tabular-nums">{formatCount(c.parameters)}</td>
                   <td className="py-1.5 tabular-nums">
                     {c.iterations}
                     {c.converged ? '' : <span className="ml-1 text-xs font-bold text-saffron-700">not converged</span>}

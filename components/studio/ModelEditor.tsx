@@ -5,7 +5,7 @@ import { useState } from 'react';
 import type { ClusterLabel, FieldSetting } from '@/models/MixtureModel';
 import { CLUSTER_PALETTE } from '@/lib/fitting/palette';
 import { api, ApiError } from './client-api';
-import { num } from './format';
+import { formatNumber, formatPercent } from '@/lib/format';
 import { ErrorNote } from './StudioPage';
 
 interface Props {
@@ -68,8 +68,8 @@ export function ModelEditor(props: Props) {
               <input id={`label-${k}`} className="pw-input" value={c.label} maxLength={60} onChange={(e) => (touch(), setClusters((cs) => cs.map((x, j) => (j === k ? { ...x, label: e.target.value } : x))))} />
               {issue(`clusters.${k}.label`) && <p className="pw-field-error">{issue(`clusters.${k}.label`)}</p>}
               <p className="mt-2 text-xs text-ink-faint">
-                {Math.round(props.weights[k] * 100)}% of rows ·{' '}
-                {fields.map((f, j) => `${f.label} ${num(props.means[k][j])}${f.unit ? ` ${f.unit}` : ''}`).join(' · ')}
+                {formatPercent(props.weights[k])} of rows ·{' '}
+                {fields.map((f, j) => `${f.label} ${formatNumber(props.means[k][j])}${f.unit ? ` ${f.unit}` : ''}`).join(' · ')}
               </p>
             </div>
             <div>

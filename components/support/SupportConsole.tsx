@@ -6,7 +6,8 @@ import useSWR from 'swr';
 import { createColumnHelper, flexRender, getCoreRowModel, useReactTable, type SortingState } from '@tanstack/react-table';
 import type { CalculatorPage, CalculatorRow } from '@/lib/support/search';
 import { PAGE_SIZES, STATUS_FILTERS, type SearchQuery, type SortKey, type StatusFilter } from '@/lib/support/schemas';
-import { fmtCount, shortToken } from './format';
+import { formatCount as fmtCount } from '@/lib/format';
+import { shortToken } from './labels';
 import { SupportStatus } from './SupportStatus';
 import { getJson, postJson } from './api';
 

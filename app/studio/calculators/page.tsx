@@ -5,6 +5,7 @@ import { calculatorList } from '@/lib/embeds/studio-queries';
 import { PublishForm } from '@/components/calculators/PublishForm';
 import { StatusPill } from '@/components/calculators/StatusPill';
 import { Section, StudioPage } from '@/components/studio/StudioPage';
+import { formatCount } from '@/lib/format';
 
 export const metadata: Metadata = { title: 'Calculators' };
 export const dynamic = 'force-dynamic';
@@ -41,7 +42,7 @@ export default async function CalculatorsPage() {
                     <td className="py-2 pr-4"><StatusPill status={r.status} /></td>
                     <td className="py-2 pr-4">{r.servedVersion ? `v${r.servedVersion}` : '—'}</td>
                     <td className="py-2 pr-4 text-right tabular-nums">{r.origins}</td>
-                    <td className="py-2 text-right tabular-nums">{r.answersThisMonth.toLocaleString('en')}</td>
+                    <td className="py-2 text-right tabular-nums">{formatCount(r.answersThisMonth)}</td>
                   </tr>
                 ))}
               </tbody>

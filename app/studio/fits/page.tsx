@@ -2,6 +2,7 @@ import Link from 'next/link';
 import type { Metadata } from 'next';
 import { pageWorkspace } from '@/lib/auth/page';
 import { Dataset, Fit } from '@/models';
+import { formatDateTime } from '@/lib/format';
 import { FitStatusPill } from '@/components/studio/FitStatusPill';
 import { Section, StudioPage } from '@/components/studio/StudioPage';
 
@@ -47,7 +48,7 @@ export default async function FitsPage() {
                       {f.status === 'succeeded' && progress?.best ? <span className="block text-xs">BIC picks {progress.best.components} × {progress.best.covariance}</span> : null}
                       {f.status === 'failed' && f.error ? <span className="block text-xs text-clay-700">{f.error}</span> : null}
                     </td>
-                    <td className="py-2 pr-4 text-ink-faint">{new Date(f.createdAt).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' })}</td>
+                    <td className="py-2 pr-4 text-ink-faint">{formatDateTime(f.createdAt)}</td>
                     <td className="py-2">
                       <FitStatusPill status={f.status} />
                     </td>

@@ -10,6 +10,7 @@ import { StatusPill } from '@/components/calculators/StatusPill';
 import { TokenActions } from '@/components/calculators/TokenActions';
 import { VersionList } from '@/components/calculators/VersionList';
 import { ErrorNote, Section, StudioPage } from '@/components/studio/StudioPage';
+import { formatCount } from '@/lib/format';
 
 export const metadata: Metadata = { title: 'Calculator' };
 export const dynamic = 'force-dynamic';
@@ -48,7 +49,7 @@ export default async function CalculatorPage({ params }: { params: Promise<{ id:
       lead={
         <span className="inline-flex flex-wrap items-center gap-3">
           <StatusPill status={embed.status === 'active' && served?.problem ? 'damaged' : embed.status} />
-          <span>{answersThisMonth.toLocaleString('en')} answers this month</span>
+          <span>{formatCount(answersThisMonth)} answers this month</span>
           {embed.status === 'disabled' && embed.disabledReason && <span>Support&rsquo;s reason: {embed.disabledReason}</span>}
         </span>
       }

@@ -11,7 +11,7 @@ import { DeleteDatasetButton } from '@/components/studio/DeleteDatasetButton';
 import { FeatureSettingsForm } from '@/components/studio/FeatureSettingsForm';
 import { FitForm } from '@/components/studio/FitForm';
 import { FitStatusPill } from '@/components/studio/FitStatusPill';
-import { count } from '@/components/studio/format';
+import { formatCount as count, formatDateTime } from '@/lib/format';
 import { Section, StudioPage } from '@/components/studio/StudioPage';
 
 export const metadata: Metadata = { title: 'Dataset' };
@@ -66,7 +66,7 @@ export default async function DatasetPage({ params }: { params: Promise<{ id: st
                   <span className="flex-1 text-ink-soft">
                     {(p.features ?? []).join(', ')} · {p.minComponents}–{p.maxComponents} components · {(p.covariances ?? []).join(', ')}
                   </span>
-                  <span className="text-ink-faint">{new Date(f.createdAt).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' })}</span>
+                  <span className="text-ink-faint">{formatDateTime(f.createdAt)}</span>
                   <FitStatusPill status={f.status} />
                 </li>
               );

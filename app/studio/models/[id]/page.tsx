@@ -8,7 +8,7 @@ import { Dataset } from '@/models';
 import { ModelEditor } from '@/components/studio/ModelEditor';
 import { ReviewPanel } from '@/components/studio/ReviewPanel';
 import { Section, StudioPage } from '@/components/studio/StudioPage';
-import { num } from '@/components/studio/format';
+import { formatCount, formatFixed } from '@/lib/format';
 
 export const metadata: Metadata = { title: 'Model' };
 export const dynamic = 'force-dynamic';
@@ -41,7 +41,7 @@ export default async function ModelPage({ params }: { params: Promise<{ id: stri
       title={model.name}
       lead={
         <>
-          {engine.weights.length} clusters · {engine.structure} covariance · {engine.features.length} features · fitted on {engine.training.rows} rows · BIC {num(engine.bic, 1)}
+          {engine.weights.length} clusters · {engine.structure} covariance · {engine.features.length} features · fitted on {formatCount(engine.training.rows)} rows · BIC {formatFixed(engine.bic, 1)}
           {rank ? ` (rank ${rank})` : ''}
           {model.fitId ? (
             <>
