@@ -54,6 +54,15 @@ export default async function CalculatorPage({ params }: { params: Promise<{ id:
         </span>
       }
     >
+      {embed.allowedOrigins.length === 0 && !retired && (
+        <div role="alert" className="mb-8 rounded-lg border-2 border-clay-500 bg-clay-100 px-5 py-4 text-clay-700" data-testid="no-websites-warning">
+          <p className="text-lg font-bold">No website may show this calculator yet</p>
+          <p className="mt-1">
+            Browsers refuse to show it on any site until you list the website it goes on; for now it appears only in the preview on this page.{' '}
+            <a href="#settings" className="font-bold underline">Add your website under Settings</a> (paste the page&rsquo;s address; the site part is kept).
+          </p>
+        </div>
+      )}
       {served?.problem && (
         <div className="mb-8">
           <ErrorNote message={`Version ${served.number}, which this calculator serves, is damaged: ${served.problem}. Visitors see “not available” until you serve another version or publish a new one (Versions, below).`} />
@@ -61,7 +70,7 @@ export default async function CalculatorPage({ params }: { params: Promise<{ id:
       )}
       <div className="grid gap-8 lg:grid-cols-[minmax(0,1fr)_minmax(0,26rem)]">
         <div className="space-y-8">
-          <Section title="Put it on your website" id="snippet" lead="Paste one of these where the calculator should appear. The page must be on one of the allowed websites below.">
+          <Section title="Put it on your website" id="snippet" lead={embed.allowedOrigins.length ? `Paste one of these where the calculator should appear. It shows on ${embed.allowedOrigins.join(', ')} and nowhere else.` : 'Paste one of these where the calculator should appear, once your website is listed under Settings: until then, no website can show it.'}>
             <div className="space-y-4">
               <SnippetBox label="With the loader (sizes itself)" code={loaderSnippet} />
               <SnippetBox label="Plain iframe" code={iframeSnippet} />
