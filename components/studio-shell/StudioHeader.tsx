@@ -13,7 +13,7 @@ import { WorkspaceSwitcher } from './WorkspaceSwitcher';
 export function StudioHeader(props: { user: { name: string; email: string }; isStaff: boolean; role: WorkspaceRole | null; workspaces: WorkspaceChoice[]; currentWorkspaceId: number | null }) {
   const items: NavItem[] = [];
   if (props.role) {
-    items.push({ href: '/studio/datasets', label: 'Datasets' }, { href: '/studio/fits', label: 'Fits' }, { href: '/studio/calculators', label: 'Calculators' }, { href: '/studio/team', label: 'Team' });
+    items.push({ href: '/studio/datasets', label: 'Datasets' }, { href: '/studio/fits', label: 'Fits' }, { href: '/studio/models', label: 'Models' }, { href: '/studio/calculators', label: 'Calculators' }, { href: '/studio/team', label: 'Team' });
     if (props.role === 'owner') items.push({ href: '/studio/billing', label: 'Billing' });
   }
   if (props.isStaff) items.push({ href: '/support', label: 'Support' });

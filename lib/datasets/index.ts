@@ -85,15 +85,15 @@ export function datasetSummary(d: Dataset, previewRows = 20) {
 const featureSetting = z
   .object({
     name: z.string().min(1),
-    displayName: z.string().trim().min(1, 'Give the feature a display name.').max(80),
-    unit: z.string().trim().max(24),
-    inputMin: z.number().finite(),
-    inputMax: z.number().finite(),
+    displayName: z.string().trim().min(1, 'Give the feature a display name.').max(80, 'Keep the name under 80 characters.'),
+    unit: z.string().trim().max(24, 'Keep the unit under 24 characters.'),
+    inputMin: z.number({ error: 'Enter a number, like 12 or 12.5.' }).finite('Enter a number, like 12 or 12.5.'),
+    inputMax: z.number({ error: 'Enter a number, like 12 or 12.5.' }).finite('Enter a number, like 12 or 12.5.'),
   })
   .refine((f) => f.inputMin < f.inputMax, { message: 'The lowest accepted value must be below the highest.', path: ['inputMax'] });
 
 export const datasetUpdateSchema = z.object({
-  name: z.string().trim().min(1, 'Give the dataset a name.').max(200).optional(),
+  name: z.string().trim().min(1, 'Give the dataset a name.').max(200, 'Keep the name under 200 characters.').optional(),
   features: z.array(featureSetting).max(200).optional(),
 });
 export type DatasetUpdate = z.infer<typeof datasetUpdateSchema>;

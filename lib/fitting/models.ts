@@ -20,8 +20,8 @@ export const createModelSchema = z.object({
   fitId: z.number().int().positive(),
   /** Position in the fit's ranked candidate list (0 = the BIC winner). */
   candidate: z.number().int().min(0),
-  name: z.string().trim().min(1, 'Give the model a name.').max(200),
-  selectionNote: z.string().trim().max(2000).default(''),
+  name: z.string().trim().min(1, 'Give the model a name.').max(200, 'Keep the name under 200 characters.'),
+  selectionNote: z.string().trim().max(2000, 'Keep the note under 2,000 characters.').default(''),
 });
 
 export async function createModelFromFit(workspaceId: number, userId: number, input: unknown): Promise<MixtureModel> {
@@ -81,20 +81,20 @@ const clusterSchema = z.object({
 const fieldSchema = z
   .object({
     feature: z.string().min(1),
-    label: z.string().trim().min(1, 'Give the field a label.').max(80),
-    unit: z.string().trim().max(24),
-    min: z.number().finite(),
-    max: z.number().finite(),
-    help: z.string().trim().max(300),
+    label: z.string().trim().min(1, 'Give the field a label visitors will read.').max(80, 'Keep the label under 80 characters.'),
+    unit: z.string().trim().max(24, 'Keep the unit under 24 characters.'),
+    min: z.number({ error: 'Enter a number, like 12 or 12.5.' }).finite('Enter a number, like 12 or 12.5.'),
+    max: z.number({ error: 'Enter a number, like 12 or 12.5.' }).finite('Enter a number, like 12 or 12.5.'),
+    help: z.string().trim().max(300, 'Keep the help text under 300 characters.'),
   })
   .refine((f) => f.min < f.max, { message: 'The lowest accepted value must be below the highest.', path: ['max'] });
 
 export const updateModelSchema = z.object({
-  name: z.string().trim().min(1, 'Give the model a name.').max(200).optional(),
+  name: z.string().trim().min(1, 'Give the model a name.').max(200, 'Keep the name under 200 characters.').optional(),
   clusters: z.array(clusterSchema).optional(),
   fields: z.array(fieldSchema).optional(),
-  caution: z.string().trim().max(600).optional(),
-  selectionNote: z.string().trim().max(2000).optional(),
+  caution: z.string().trim().max(600, 'Keep the caution under 600 characters.').optional(),
+  selectionNote: z.string().trim().max(2000, 'Keep the note under 2,000 characters.').optional(),
 });
 
 export async function findModel(workspaceId: number, id: number): Promise<MixtureModel> {
@@ -114,7 +114,7 @@ export async function updateModel(workspaceId: number, id: number, input: unknow
     const seen = new Map<string, number>();
     body.clusters.forEach((c, i) => {
       const key = c.label.toLowerCase();
-      if (seen.has(key)) throw new AppError('invalid_input', `Clusters ${seen.get(key)! + 1} and ${i + 1} are both labelled "${c.label}"; visitors could not tell them apart.`, { issues: [{ field: `clusters.${i}.label`, message: 'used twice' }] });
+      if (seen.has(key)) throw new AppError('invalid_input', `Clusters ${seen.get(key)! + 1} and ${i + 1} are both labelled "${c.label}"; visitors could not tell them apart.`, { issues: [{ field: `clusters.${i}.label`, message: `Cluster ${seen.get(key)! + 1} has this label too; visitors could not tell them apart.` }] });
       seen.set(key, i);
     });
     model.clusters = body.clusters;

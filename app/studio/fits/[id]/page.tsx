@@ -4,7 +4,7 @@ import { pageWorkspace } from '@/lib/auth/page';
 import { AppError } from '@/lib/errors';
 import { findFit } from '@/lib/fitting/jobs';
 import { fitView } from '@/lib/fitting/views';
-import { Dataset } from '@/models';
+import { Dataset, MixtureModel } from '@/models';
 import { FitWorkbench } from '@/components/studio/FitWorkbench';
 import { StudioPage } from '@/components/studio/StudioPage';
 
@@ -22,6 +22,11 @@ export default async function FitPage({ params }: { params: Promise<{ id: string
   });
   const dataset = await Dataset.findOne({ where: { id: fit.datasetId, workspaceId: actor.workspace.id }, attributes: ['id', 'name'] });
   const p = fit.params as { features?: string[]; minComponents?: number; maxComponents?: number; covariances?: string[]; restarts?: number; seed?: number; standardize?: boolean; rows?: number; dropped?: number };
+  // Models already kept from this fit, so the page says so instead of inviting a duplicate.
+  const kept = (await MixtureModel.findAll({ where: { workspaceId: actor.workspace.id, fitId: fit.id }, attributes: ['id', 'name', 'model'], order: [['id', 'ASC']] })).map((m) => {
+    const engine = m.model as { weights?: number[]; structure?: string };
+    return { id: m.id, name: m.name, components: engine.weights?.length ?? 0, covariance: engine.structure ?? '' };
+  });
   const view = JSON.parse(JSON.stringify(fitView(fit)));
   return (
     <StudioPage
@@ -33,7 +38,7 @@ export default async function FitPage({ params }: { params: Promise<{ id: string
         </>
       }
     >
-      <FitWorkbench initial={view} datasetName={dataset?.name ?? 'Model'} />
+      <FitWorkbench initial={view} datasetName={dataset?.name ?? 'Model'} kept={kept} />
     </StudioPage>
   );
 }

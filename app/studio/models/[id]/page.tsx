@@ -4,7 +4,7 @@ import type { Metadata } from 'next';
 import { pageWorkspace } from '@/lib/auth/page';
 import { AppError } from '@/lib/errors';
 import { findModel } from '@/lib/fitting/models';
-import { Dataset } from '@/models';
+import { Dataset, Embed } from '@/models';
 import { ModelEditor } from '@/components/studio/ModelEditor';
 import { ReviewPanel } from '@/components/studio/ReviewPanel';
 import { Section, StudioPage } from '@/components/studio/StudioPage';
@@ -34,6 +34,8 @@ export default async function ModelPage({ params }: { params: Promise<{ id: stri
   });
   const engine = model.model as unknown as EngineModelShape;
   const dataset = model.datasetId ? await Dataset.findOne({ where: { id: model.datasetId, workspaceId: actor.workspace.id }, attributes: ['id', 'name'] }) : null;
+  const calculators = await Embed.findAll({ where: { workspaceId: actor.workspace.id, mixtureModelId: model.id }, attributes: ['id', 'title', 'status'], order: [['id', 'ASC']] });
+  const live = calculators.filter((c) => c.status !== 'retired');
   const rank = engine.ranking?.find((r) => r.components === engine.weights.length && r.covariance === engine.structure)?.rank;
   return (
     <StudioPage
@@ -54,11 +56,30 @@ export default async function ModelPage({ params }: { params: Promise<{ id: stri
         </>
       }
       actions={
-        <a className="pw-button-quiet" href={`/api/models/${model.id}/download`} download>
-          Download model JSON
-        </a>
+        <div className="flex flex-wrap items-center gap-3">
+          <a className="pw-button-quiet" href={`/api/models/${model.id}/download`} download>
+            Download model JSON
+          </a>
+          <Link className="pw-button" href={`/studio/calculators?model=${model.id}#publish`}>
+            {live.length ? 'Publish as another calculator' : 'Publish as a calculator'}
+          </Link>
+        </div>
       }
     >
+      {live.length > 0 && (
+        <p className="-mt-4 text-sm text-ink-soft" data-testid="published-as">
+          Published as{' '}
+          {live.map((c, i) => (
+            <span key={c.id}>
+              {i > 0 ? ', ' : ''}
+              <Link href={`/studio/calculators/${c.id}`} className="font-bold text-moss-700 hover:underline">
+                {c.title}
+              </Link>
+            </span>
+          ))}
+          . A calculator keeps the version it was published with: after changing names or fields here, publish a new version from its page.
+        </p>
+      )}
       {model.selectionNote && (
         <Section title="Why this candidate" id="note">
           <p className="text-ink-soft">{model.selectionNote}</p>
