@@ -54,11 +54,12 @@ export async function findDataset(workspaceId: number, id: number): Promise<Data
 export async function listDatasets(workspaceId: number) {
   const rows = await Dataset.findAll({
     where: { workspaceId },
-    attributes: ['id', 'name', 'originalFilename', 'rowCount', 'columns', 'createdAt', 'updatedAt'],
+    attributes: ['id', 'number', 'name', 'originalFilename', 'rowCount', 'columns', 'createdAt', 'updatedAt'],
     order: [['createdAt', 'DESC'], ['id', 'DESC']],
   });
   return rows.map((d) => ({
     id: d.id,
+    number: d.number,
     name: d.name,
     originalFilename: d.originalFilename,
     rowCount: d.rowCount,
@@ -71,6 +72,7 @@ export async function listDatasets(workspaceId: number) {
 export function datasetSummary(d: Dataset, previewRows = 20) {
   return {
     id: d.id,
+    number: d.number,
     name: d.name,
     originalFilename: d.originalFilename,
     rowCount: d.rowCount,

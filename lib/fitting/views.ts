@@ -23,6 +23,7 @@ export function fitView(fit: Fit) {
   const result = fitResult(fit);
   return {
     id: fit.id,
+    number: fit.number,
     datasetId: fit.datasetId,
     status: fit.status,
     params: fit.params,

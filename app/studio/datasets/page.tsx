@@ -25,6 +25,7 @@ export default async function DatasetsPage() {
           <table className="w-full text-left text-sm">
             <thead className="border-b border-ink/10 text-ink-soft">
               <tr>
+                <th className="py-2 pr-4 text-right font-bold">No.</th>
                 <th className="py-2 pr-4 font-bold">Name</th>
                 <th className="py-2 pr-4 font-bold">File</th>
                 <th className="py-2 pr-4 text-right font-bold">Rows</th>
@@ -35,6 +36,7 @@ export default async function DatasetsPage() {
             <tbody>
               {datasets.map((d) => (
                 <tr key={d.id} className="border-b border-ink/5">
+                  <td className="py-2 pr-4 text-right tabular-nums text-ink-faint">{d.number}</td>
                   <td className="py-2 pr-4">
                     <Link className="font-bold text-moss-700 hover:underline" href={`/studio/datasets/${d.id}`}>
                       {d.name}

@@ -11,7 +11,7 @@ export const dynamic = 'force-dynamic';
 
 export default async function FitsPage() {
   const actor = await pageWorkspace('member', '/studio/fits');
-  const fits = await Fit.findAll({ where: { workspaceId: actor.workspace.id }, order: [['id', 'DESC']], limit: 200, attributes: ['id', 'datasetId', 'status', 'params', 'progress', 'error', 'createdAt'] });
+  const fits = await Fit.findAll({ where: { workspaceId: actor.workspace.id }, order: [['id', 'DESC']], limit: 200, attributes: ['id', 'number', 'datasetId', 'status', 'params', 'progress', 'error', 'createdAt'] });
   const datasets = new Map((await Dataset.findAll({ where: { workspaceId: actor.workspace.id }, attributes: ['id', 'name'] })).map((d) => [d.id, d.name]));
   return (
     <StudioPage title="Fits" lead="Every mixture fit of this workspace, newest first. Start a new one from a dataset.">
@@ -39,7 +39,7 @@ export default async function FitsPage() {
                   <tr key={f.id} className="border-b border-ink/5 align-top">
                     <td className="py-2 pr-4">
                       <Link href={`/studio/fits/${f.id}`} className="font-bold text-moss-700 hover:underline">
-                        #{f.id}
+                        Fit {f.number}
                       </Link>
                     </td>
                     <td className="py-2 pr-4">{datasets.get(f.datasetId) ?? <span className="text-ink-faint">deleted</span>}</td>

@@ -4,11 +4,17 @@ import { pageWorkspace } from '@/lib/auth/page';
 import { AppError } from '@/lib/errors';
 import { findFit } from '@/lib/fitting/jobs';
 import { fitView } from '@/lib/fitting/views';
-import { Dataset, MixtureModel } from '@/models';
+import { Dataset, Fit, MixtureModel } from '@/models';
 import { FitWorkbench } from '@/components/studio/FitWorkbench';
 import { StudioPage } from '@/components/studio/StudioPage';
 
-export const metadata: Metadata = { title: 'Fit' };
+/** The tab title names the fit by its number in the workspace. */
+export async function generateMetadata({ params }: { params: Promise<{ id: string }> }): Promise<Metadata> {
+  const fitId = Number((await params).id);
+  const actor = await pageWorkspace('member', `/studio/fits/${fitId}`).catch(() => null);
+  const fit = actor && Number.isInteger(fitId) && fitId > 0 ? await Fit.findOne({ where: { id: fitId, workspaceId: actor.workspace.id }, attributes: ['number'] }) : null;
+  return { title: fit ? `Fit ${fit.number}` : 'Fit' };
+}
 export const dynamic = 'force-dynamic';
 
 export default async function FitPage({ params }: { params: Promise<{ id: string }> }) {
@@ -31,7 +37,7 @@ export default async function FitPage({ params }: { params: Promise<{ id: string
   return (
     <StudioPage
       trail={[{ href: '/studio/datasets', label: 'Datasets' }, ...(dataset ? [{ href: `/studio/datasets/${dataset.id}`, label: dataset.name }] : [])]}
-      title={`Fit #${fit.id}`}
+      title={`Fit ${fit.number}`}
       lead={
         <>
           {(p.features ?? []).join(', ')} · {p.minComponents}–{p.maxComponents} components · {(p.covariances ?? []).join(', ')} · {p.restarts} restart{p.restarts === 1 ? '' : 's'} · seed {p.seed} · {p.standardize ? 'standardised' : 'raw units'} · {p.rows} rows{p.dropped ? ` (${p.dropped} with gaps left out)` : ''}

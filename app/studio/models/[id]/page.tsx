@@ -4,7 +4,7 @@ import type { Metadata } from 'next';
 import { pageWorkspace } from '@/lib/auth/page';
 import { AppError } from '@/lib/errors';
 import { findModel } from '@/lib/fitting/models';
-import { Dataset, Embed } from '@/models';
+import { Dataset, Embed, Fit } from '@/models';
 import { ModelEditor } from '@/components/studio/ModelEditor';
 import { ReviewPanel } from '@/components/studio/ReviewPanel';
 import { Section, StudioPage } from '@/components/studio/StudioPage';
@@ -35,6 +35,7 @@ export default async function ModelPage({ params }: { params: Promise<{ id: stri
   const engine = model.model as unknown as EngineModelShape;
   const dataset = model.datasetId ? await Dataset.findOne({ where: { id: model.datasetId, workspaceId: actor.workspace.id }, attributes: ['id', 'name'] }) : null;
   const calculators = await Embed.findAll({ where: { workspaceId: actor.workspace.id, mixtureModelId: model.id }, attributes: ['id', 'title', 'status'], order: [['id', 'ASC']] });
+  const fit = model.fitId ? await Fit.findOne({ where: { id: model.fitId, workspaceId: actor.workspace.id }, attributes: ['id', 'number'] }) : null;
   const live = calculators.filter((c) => c.status !== 'retired');
   const rank = engine.ranking?.find((r) => r.components === engine.weights.length && r.covariance === engine.structure)?.rank;
   return (
@@ -45,11 +46,11 @@ export default async function ModelPage({ params }: { params: Promise<{ id: stri
         <>
           {engine.weights.length} clusters · {engine.structure} covariance · {engine.features.length} features · fitted on {formatCount(engine.training.rows)} rows · BIC {formatFixed(engine.bic, 1)}
           {rank ? ` (rank ${rank})` : ''}
-          {model.fitId ? (
+          {fit ? (
             <>
               {' · '}
-              <Link href={`/studio/fits/${model.fitId}`} className="font-bold text-moss-700 hover:underline">
-                fit #{model.fitId}
+              <Link href={`/studio/fits/${fit.id}`} className="font-bold text-moss-700 hover:underline">
+                fit {fit.number}
               </Link>
             </>
           ) : null}
