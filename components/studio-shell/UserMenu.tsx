@@ -1,5 +1,6 @@
 'use client';
 
+import Link from 'next/link';
 import { signOut } from 'next-auth/react';
 
 /** Who is signed in, and the way out. A <details> keeps it usable without scripts for reading. */
@@ -17,7 +18,10 @@ export function UserMenu({ name, email, role }: { name: string; email: string; r
         <p className="truncate text-sm font-bold">{name}</p>
         <p className="truncate text-sm text-ink-soft">{email}</p>
         <p className="mt-1 text-xs text-ink-faint">{role}</p>
-        <button type="button" className="pw-button-quiet mt-4 w-full" onClick={() => signOut({ callbackUrl: '/' })}>
+        <Link href="/studio/account" className="pw-button-quiet mt-4 w-full">
+          Your account
+        </Link>
+        <button type="button" className="pw-button-quiet mt-2 w-full" onClick={() => signOut({ callbackUrl: '/' })}>
           Sign out
         </button>
       </div>

@@ -22,6 +22,7 @@ export default async function DatasetsPage() {
         {datasets.length === 0 ? (
           <p className="text-ink-soft">No tables yet. Upload a CSV above; the sample ride logs are in <a className="font-bold text-moss-700 underline" href="/samples/riverside-rides.csv">riverside-rides.csv</a>.</p>
         ) : (
+          <div className="overflow-x-auto">
           <table className="w-full text-left text-sm">
             <thead className="border-b border-ink/10 text-ink-soft">
               <tr>
@@ -52,6 +53,7 @@ export default async function DatasetsPage() {
               ))}
             </tbody>
           </table>
+          </div>
         )}
       </Section>
     </StudioPage>

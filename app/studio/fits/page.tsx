@@ -21,6 +21,7 @@ export default async function FitsPage() {
             No fits yet. Open a <Link className="font-bold text-moss-700 underline" href="/studio/datasets">dataset</Link> and choose “Fit mixtures”.
           </p>
         ) : (
+          <div className="overflow-x-auto">
           <table className="w-full text-left text-sm">
             <thead className="border-b border-ink/10 text-ink-soft">
               <tr>
@@ -57,6 +58,7 @@ export default async function FitsPage() {
               })}
             </tbody>
           </table>
+          </div>
         )}
       </Section>
     </StudioPage>
