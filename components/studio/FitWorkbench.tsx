@@ -202,7 +202,7 @@ function ChosenCandidate({ fit, index, datasetName, kept }: { fit: FitJson; inde
           <button type="submit" className="pw-button" disabled={busy}>
             {busy ? 'Saving…' : kept.length ? 'Keep another copy' : 'Keep and name clusters'}
           </button>
-          {error && (nameIssue || noteIssue ? null : <ErrorNote message={error.message} />)}
+          {error && !nameIssue && <ErrorNote message={error.message} />}
         </form>
       </Section>
     </>
