@@ -43,10 +43,10 @@ export function PublishForm({ models, defaultModelId }: { models: { id: number; 
 
   if (!models.length) return <p className="text-ink-soft">Name the clusters of a fit first; named models can be published here.</p>;
   return (
-    <form onSubmit={submit} noValidate className="grid gap-4 md:grid-cols-2" aria-label="Publish a model">
+    <form onSubmit={submit} onChange={() => notice && setNotice(null)} noValidate className="grid gap-4 md:grid-cols-2" aria-label="Publish a model">
       <div>
-        <label htmlFor="publish-model" className="pw-label">Model</label>
-        <select id="publish-model" className="pw-input" aria-invalid={errors.model ? true : undefined} {...register('model')}>
+        <label htmlFor="pub-model" className="pw-label">Model</label>
+        <select id="pub-model" className="pw-input" aria-invalid={errors.model ? true : undefined} {...register('model')}>
           {models.map((m) => (
             <option key={m.id} value={m.id}>{m.name}</option>
           ))}
@@ -54,26 +54,26 @@ export function PublishForm({ models, defaultModelId }: { models: { id: number; 
         {errors.model && <p className="pw-field-error">{errors.model.message}</p>}
       </div>
       <div>
-        <label htmlFor="publish-title" className="pw-label">Title visitors see (optional)</label>
-        <input id="publish-title" className="pw-input" maxLength={200} aria-describedby="publish-title-help" aria-invalid={errors.title ? true : undefined} {...register('title')} />
-        {errors.title ? <p className="pw-field-error">{errors.title.message}</p> : <p id="publish-title-help" className="mt-1 text-sm text-ink-soft">Left empty, visitors see the model&rsquo;s name.</p>}
+        <label htmlFor="pub-title" className="pw-label">Title visitors see (optional)</label>
+        <input id="pub-title" className="pw-input" maxLength={200} aria-describedby="pub-title-help" aria-invalid={errors.title ? true : undefined} {...register('title')} />
+        {errors.title ? <p className="pw-field-error">{errors.title.message}</p> : <p id="pub-title-help" className="mt-1 text-sm text-ink-soft">Left empty, visitors see the model&rsquo;s name.</p>}
       </div>
       <div className="md:col-span-2">
-        <label htmlFor="publish-website" className="pw-label">Your website that will show it</label>
+        <label htmlFor="pub-website" className="pw-label">Your website that will show it</label>
         <input
-          id="publish-website"
+          id="pub-website"
           type="url"
           inputMode="url"
           autoComplete="url"
           className="pw-input font-mono text-sm"
-          aria-describedby="publish-website-help"
+          aria-describedby="pub-website-help"
           aria-invalid={errors.website ? true : undefined}
           {...register('website', { validate: (v) => !v.trim() || /^https?:\/\//i.test(v.trim()) || 'Start the address with https:// (or http:// for a site on your own computer).' })}
         />
         {errors.website ? (
           <p className="pw-field-error">{errors.website.message}</p>
         ) : (
-          <p id="publish-website-help" className="mt-1 text-sm text-ink-soft">
+          <p id="pub-website-help" className="mt-1 text-sm text-ink-soft">
             Paste the address of the page the calculator goes on, like <code>https://club.example/rides/join</code>; only the site part is kept. Browsers show the calculator on the websites you list and nowhere else. You can add more later.
           </p>
         )}

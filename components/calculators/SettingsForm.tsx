@@ -68,8 +68,8 @@ export function SettingsForm({ embedId, initial, disabled }: { embedId: number; 
   });
 
   return (
-    <form onSubmit={submit} noValidate className="grid gap-4" aria-label="Calculator settings">
-      <fieldset disabled={disabled || formState.isSubmitting} className="grid gap-4">
+    <form onSubmit={submit} onChange={() => notice && setNotice(null)} noValidate className="grid gap-4" aria-label="Calculator settings">
+      <fieldset disabled={disabled || formState.isSubmitting} className="grid min-w-0 gap-4">
         <div>
           <label htmlFor="s-title" className="pw-label">Title</label>
           <input id="s-title" className="pw-input" maxLength={200} aria-invalid={errors.title ? true : undefined} {...register('title', { validate: (v) => v.trim().length > 0 || 'Give the calculator a title.' })} />

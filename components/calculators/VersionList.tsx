@@ -33,6 +33,7 @@ export function VersionList({ embedId, versions, activeVersionId, models, curren
 
   return (
     <div className="space-y-4">
+      <div className="overflow-x-auto">
       <table className="w-full text-left text-sm">
         <caption className="sr-only">Published versions</caption>
         <thead className="border-b border-ink/10 text-ink-soft">
@@ -73,6 +74,7 @@ export function VersionList({ embedId, versions, activeVersionId, models, curren
           ))}
         </tbody>
       </table>
+      </div>
       <div className="flex flex-wrap items-end gap-3">
         <div className="min-w-[12rem] flex-1">
           <label htmlFor="again-model" className="pw-label">Publish a new version from</label>

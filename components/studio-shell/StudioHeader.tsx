@@ -34,7 +34,7 @@ export function StudioHeader(props: { user: { name: string; email: string }; isS
           <StudioNav items={items} />
         </div>
         {/* At phone widths the menu shows initials only; the name is inside it. */}
-        <div className="min-w-0 max-sm:[&_summary>span:last-child]:hidden">
+        <div className="min-w-0 max-sm:[&_summary>span:last-child]:hidden max-sm:[&_summary]:pr-1">
           <UserMenu name={props.user.name} email={props.user.email} role={roleLabel} />
         </div>
       </div>

@@ -69,7 +69,7 @@ export function StudioNav({ items }: { items: NavItem[] }) {
                   const active = isActive(pathname, item.href);
                   return (
                     <li key={item.href}>
-                      <Link href={item.href} aria-current={active ? 'page' : undefined} className={`block rounded-lg px-3 py-2 ${active ? 'bg-moss-100 text-moss-900' : 'text-ink hover:bg-paper-deep'}`}>
+                      <Link href={item.href} onClick={() => setOpen(false)} aria-current={active ? 'page' : undefined} className={`block rounded-lg px-3 py-2 ${active ? 'bg-moss-100 text-moss-900' : 'text-ink hover:bg-paper-deep'}`}>
                         {item.label}
                       </Link>
                     </li>

@@ -24,7 +24,7 @@ export function NameForm({ name }: { name: string }) {
     if (rest.length || !result.issues.length) setBanner({ tone: 'error', text: rest.join(' ') || result.message });
   });
   return (
-    <form onSubmit={submit} noValidate className="max-w-md space-y-4" aria-label="Your name">
+    <form onSubmit={submit} noValidate className="max-w-md space-y-4">
       <Field label="Your name" autoComplete="name" maxLength={120} error={formState.errors.name?.message} hint="Shown to the people in your workspaces and in mails we send you." {...register('name')} />
       <div className="flex items-center gap-4">
         <button type="submit" className="pw-button" disabled={formState.isSubmitting}>
@@ -61,7 +61,7 @@ export function PasswordForm({ email }: { email: string }) {
     setBanner({ tone: 'error', text: rest.length ? rest.join(' ') : result.issues.length ? fixFieldsNotice(result.issues.length) : result.message });
   });
   return (
-    <form onSubmit={submit} noValidate className="max-w-md space-y-4" aria-label="Change your password">
+    <form onSubmit={submit} noValidate className="max-w-md space-y-4">
       {/* Lets password managers file the new password under the right account. */}
       <input type="email" name="username" autoComplete="username" value={email} readOnly hidden />
       <Field label="Current password" type="password" autoComplete="current-password" error={errors.currentPassword?.message} {...register('currentPassword')} />
@@ -94,8 +94,8 @@ export function DeleteAccountForm({ email, blocked }: { email: string; blocked: 
     setBanner(rest.length ? result.message : result.issues.length ? fixFieldsNotice(result.issues.length) : result.message);
   });
   return (
-    <form onSubmit={submit} noValidate className="max-w-md space-y-4" aria-label="Delete your account">
-      <fieldset disabled={blocked || formState.isSubmitting} className="space-y-4">
+    <form onSubmit={submit} noValidate className="max-w-md space-y-4">
+      <fieldset disabled={blocked || formState.isSubmitting} className="min-w-0 space-y-4">
         <Field label={`Type ${email} to confirm`} autoComplete="off" spellCheck={false} error={formState.errors.confirmEmail?.message} {...register('confirmEmail')} />
         <Field label="Your password" type="password" autoComplete="current-password" error={formState.errors.password?.message} {...register('password')} />
         <button type="submit" className="inline-flex items-center justify-center rounded-full bg-clay-700 px-5 py-2.5 text-sm font-bold text-white transition hover:bg-clay-500 disabled:cursor-not-allowed disabled:opacity-50" disabled={blocked || !matches || formState.isSubmitting}>

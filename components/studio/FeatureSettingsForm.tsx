@@ -56,7 +56,7 @@ export function FeatureSettingsForm({ datasetId, columns }: { datasetId: number;
   });
 
   return (
-    <form onSubmit={save} noValidate className="space-y-4" aria-label="Feature settings">
+    <form onSubmit={save} onChange={() => notice && setNotice(null)} noValidate className="space-y-4" aria-label="Feature settings">
       <div className="overflow-x-auto">
         <table className="w-full text-left text-sm">
           <thead className="text-ink-soft">

@@ -63,7 +63,7 @@ export function FitForm({ datasetId, columns, defaults, maxComponentsAllowed }: 
 
   return (
     <form onSubmit={start} className="space-y-6" aria-label="Fit settings">
-      <fieldset>
+      <fieldset className="min-w-0">
         <legend className="pw-label">Features</legend>
         <div className="flex flex-wrap gap-2">
           {numeric.map((c) => (
@@ -80,7 +80,7 @@ export function FitForm({ datasetId, columns, defaults, maxComponentsAllowed }: 
         </p>
       </fieldset>
       <div className="grid gap-6 md:grid-cols-2">
-        <fieldset>
+        <fieldset className="min-w-0">
           <legend className="pw-label">Components to try</legend>
           <div className="flex items-center gap-2">
             <input aria-label="Fewest components" type="number" className="pw-input w-20" min={1} max={maxComponentsAllowed} value={minK} onChange={(e) => setMinK(Number(e.target.value))} />
@@ -90,7 +90,7 @@ export function FitForm({ datasetId, columns, defaults, maxComponentsAllowed }: 
           {(issue('minComponents') || issue('maxComponents')) && <p className="pw-field-error">{issue('minComponents') ?? issue('maxComponents')}</p>}
           <p className="mt-2 text-xs text-ink-faint">{candidates} candidate models; BIC picks among them, you may overrule it.</p>
         </fieldset>
-        <fieldset>
+        <fieldset className="min-w-0">
           <legend className="pw-label">Covariance structures</legend>
           <div className="grid grid-cols-2 gap-2">
             {STRUCTURES.map((s) => (

@@ -70,7 +70,7 @@ export function ModelEditor(props: Props) {
   });
 
   return (
-    <form onSubmit={save} noValidate className="space-y-8" aria-label="Name the model">
+    <form onSubmit={save} onChange={() => notice && setNotice(null)} noValidate className="space-y-8" aria-label="Name the model">
       <div>
         <label className="pw-label" htmlFor="model-name">
           Model name
@@ -78,7 +78,7 @@ export function ModelEditor(props: Props) {
         <input id="model-name" className="pw-input max-w-xl" maxLength={200} aria-invalid={errors.name ? true : undefined} {...register('name', { ...touch, validate: (v) => v.trim().length > 0 || 'Give the model a name.' })} />
         {errors.name && <p className="pw-field-error">{errors.name.message}</p>}
       </div>
-      <fieldset className="space-y-4">
+      <fieldset className="min-w-0 space-y-4">
         <legend className="font-display text-lg font-semibold">Clusters</legend>
         {clusters.map((c, k) => (
           <div key={k} className="grid gap-4 rounded-lg bg-paper p-4 md:grid-cols-[1fr_1.6fr_auto]" data-testid={`cluster-${k}`}>
@@ -134,7 +134,7 @@ export function ModelEditor(props: Props) {
           </div>
         ))}
       </fieldset>
-      <fieldset>
+      <fieldset className="min-w-0">
         <legend className="font-display text-lg font-semibold">Calculator fields</legend>
         <p className="mb-3 text-sm text-ink-soft">What visitors see for each input and the range it accepts.</p>
         <div className="overflow-x-auto">

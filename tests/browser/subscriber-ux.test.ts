@@ -12,7 +12,7 @@ import { appUrl, launchBrowser, screenshot, signInContext } from '../helpers/bro
 import { createDataset } from '@/lib/datasets';
 import { demoRidesCsv } from '@/lib/demo/cycling';
 import { seedDemoModel, DEMO_MODEL_NAME } from '@/lib/demo/model';
-import { Fit, Membership, MixtureModel, Subscription, User, Workspace } from '@/models';
+import { Embed, Fit, Membership, MixtureModel, Subscription, User, Workspace } from '@/models';
 
 const run = Math.random().toString(36).slice(2, 8);
 const PASSWORD = 'hill repeats at dawn';
@@ -30,8 +30,16 @@ async function person(email: string, name: string) {
 
 /** No page may be wider than the window: a sideways scroll on a phone means something overflows. */
 async function expectNoSidewaysScroll(p: Page) {
-  const width = await p.evaluate(() => document.documentElement.scrollWidth);
-  expect(width).toBeLessThanOrEqual(p.viewportSize()!.width);
+  const { width, culprits } = await p.evaluate((limit) => {
+    // Name the widest offenders, so a failure says what to fix.
+    const culprits = [...document.querySelectorAll('body *')]
+      .map((el) => ({ el, right: el.getBoundingClientRect().right }))
+      .filter((x) => x.right > limit + 0.5)
+      .slice(0, 5)
+      .map((x) => `${x.el.tagName.toLowerCase()}.${String(x.el.className).slice(0, 60)} → ${Math.round(x.right)}px`);
+    return { width: document.documentElement.scrollWidth, culprits };
+  }, p.viewportSize()!.width);
+  expect(width, `${p.url()} is wider than the screen: ${culprits.join('; ')}`).toBeLessThanOrEqual(p.viewportSize()!.width);
 }
 
 beforeAll(async () => {
@@ -237,8 +245,9 @@ describe('a new subscriber in the studio', () => {
     await screenshot(p, 'subscriber-phone-menu-open');
     await list.getByRole('link', { name: 'Models' }).click();
     await p.waitForURL(/\/studio\/models$/);
-    await expect(p.locator('#studio-menu').count()).resolves.toBe(0);
-    for (const path of [`/studio/fits/${fitId}`, `/studio/models/${modelId}`, '/studio/calculators', '/studio/account', `/studio/datasets/${datasetId}`]) {
+    await p.locator('#studio-menu').waitFor({ state: 'detached', timeout: 5_000 });
+    const calculator = (await Embed.findOne({ where: { mixtureModelId: modelId } }))!;
+    for (const path of [`/studio/calculators/${calculator.id}`, `/studio/fits/${fitId}`, `/studio/models/${modelId}`, '/studio/calculators', '/studio/account', `/studio/datasets/${datasetId}`]) {
       await p.goto(appUrl(path));
       await p.locator('h1').first().waitFor();
       await expectNoSidewaysScroll(p);

@@ -68,14 +68,14 @@ export default async function CalculatorPage({ params }: { params: Promise<{ id:
           <ErrorNote message={`Version ${served.number}, which this calculator serves, is damaged: ${served.problem}. Visitors see “not available” until you serve another version or publish a new one (Versions, below).`} />
         </div>
       )}
-      <div className="grid gap-8 lg:grid-cols-[minmax(0,1fr)_minmax(0,26rem)]">
+      <div className="grid grid-cols-1 gap-8 lg:grid-cols-[minmax(0,1fr)_minmax(0,26rem)]">
         <div className="space-y-8">
           <Section title="Put it on your website" id="snippet" lead={embed.allowedOrigins.length ? `Paste one of these where the calculator should appear. It shows on ${embed.allowedOrigins.join(', ')} and nowhere else.` : 'Paste one of these where the calculator should appear, once your website is listed under Settings: until then, no website can show it.'}>
             <div className="space-y-4">
               <SnippetBox label="With the loader (sizes itself)" code={loaderSnippet} />
               <SnippetBox label="Plain iframe" code={iframeSnippet} />
               <p className="text-sm text-ink-soft">
-                Address: <a className="font-mono text-moss-700 underline" href={`/embed/${embed.token}`} target="_blank" rel="noreferrer">{`${origin}/embed/${embed.token}`}</a>
+                Address: <a className="break-all font-mono text-moss-700 underline" href={`/embed/${embed.token}`} target="_blank" rel="noreferrer">{`${origin}/embed/${embed.token}`}</a>
               </p>
             </div>
           </Section>
