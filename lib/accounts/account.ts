@@ -51,7 +51,7 @@ export async function changePassword(user: User, input: ChangePasswordInput, req
 /** What deleting the account would do to each workspace the person belongs to. */
 export interface DeletionPlan {
   /** Workspaces that stop the deletion, each with the reason in words. */
-  blockers: { workspaceId: number; workspaceName: string; reason: string }[];
+  blockers: { workspaceId: number; workspaceName: string; kind: 'only-owner' | 'paid-plan'; reason: string }[];
   /** Workspaces where the person is the only one: deleted with the account, data and all. */
   deletedWorkspaces: { id: number; name: string }[];
   /** Workspaces the person simply leaves. */
@@ -70,7 +70,7 @@ export async function deletionPlan(userId: number): Promise<DeletionPlan> {
       // A paid plan still in force would go on charging after its workspace is gone.
       const paid = subscription && getPlan(subscription.plan).monthlyPrice > 0 && ['active', 'trialing', 'past_due'].includes(subscription.status) && !subscription.cancelAtPeriodEnd;
       if (paid) {
-        plan.blockers.push({ workspaceId: workspace.id, workspaceName: workspace.name, reason: `${workspace.name} has a paid plan. Cancel it on the Billing page first, so nothing is charged after the workspace is gone.` });
+        plan.blockers.push({ workspaceId: workspace.id, workspaceName: workspace.name, kind: 'paid-plan', reason: `${workspace.name} has a paid plan. Cancel it on the Billing page first, so nothing is charged after the workspace is gone.` });
       } else {
         plan.deletedWorkspaces.push({ id: workspace.id, name: workspace.name });
       }
@@ -79,6 +79,7 @@ export async function deletionPlan(userId: number): Promise<DeletionPlan> {
       plan.blockers.push({
         workspaceId: workspace.id,
         workspaceName: workspace.name,
+        kind: 'only-owner',
         reason: `You are the only owner of ${workspace.name}, which has ${people}. On its Team page, make someone else an owner (or remove everyone else) first; then you can delete your account.`,
       });
     } else {

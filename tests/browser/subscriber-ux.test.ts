@@ -257,6 +257,14 @@ describe('a new subscriber in the studio', () => {
     await p.getByTestId('certainty').waitFor({ timeout: 30_000 });
     await expectNoSidewaysScroll(p);
     await screenshot(p, 'subscriber-phone-fit');
+    // What the phone shows at once, at the top and at the candidates and charts.
+    await p.screenshot({ path: 'test-results/screenshots/subscriber-phone-fit-top.png' });
+    await p.getByTestId('criterion-chart').scrollIntoViewIfNeeded();
+    await p.screenshot({ path: 'test-results/screenshots/subscriber-phone-fit-chart.png' });
+    await p.getByRole('table', { name: 'Cluster means and standard deviations' }).scrollIntoViewIfNeeded();
+    await p.screenshot({ path: 'test-results/screenshots/subscriber-phone-fit-stats.png' });
+    await p.goto(appUrl(`/studio/models/${modelId}`));
+    await p.screenshot({ path: 'test-results/screenshots/subscriber-phone-model-top.png' });
     await phone.close();
   });
 });

@@ -36,7 +36,17 @@ export default async function AccountPage() {
                 ))}
               </ul>
               <p className="mt-2">
-                Manage people on the <Link href="/studio/team" className="font-bold underline">Team page</Link> of that workspace (switch to it with the workspace menu at the top) and the plan on its <Link href="/studio/billing" className="font-bold underline">Billing page</Link>.
+                {plan.blockers.some((b) => b.kind === 'only-owner') && (
+                  <>
+                    People are managed on a workspace&rsquo;s <Link href="/studio/team" className="font-bold underline">Team page</Link>.{' '}
+                  </>
+                )}
+                {plan.blockers.some((b) => b.kind === 'paid-plan') && (
+                  <>
+                    The plan is on its <Link href="/studio/billing" className="font-bold underline">Billing page</Link>.{' '}
+                  </>
+                )}
+                {plan.blockers.length > 0 && 'If it is not the current workspace, switch to it with the workspace menu at the top first.'}
               </p>
             </div>
           ) : null}
