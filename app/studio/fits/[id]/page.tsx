@@ -5,6 +5,7 @@ import { AppError } from '@/lib/errors';
 import { findFit } from '@/lib/fitting/jobs';
 import { fitView } from '@/lib/fitting/views';
 import { Dataset, Fit, MixtureModel } from '@/models';
+import { formatCount } from '@/lib/format';
 import { FitWorkbench } from '@/components/studio/FitWorkbench';
 import { StudioPage } from '@/components/studio/StudioPage';
 
@@ -40,7 +41,7 @@ export default async function FitPage({ params }: { params: Promise<{ id: string
       title={`Fit ${fit.number}`}
       lead={
         <>
-          {(p.features ?? []).join(', ')} · {p.minComponents}–{p.maxComponents} components · {(p.covariances ?? []).join(', ')} · {p.restarts} restart{p.restarts === 1 ? '' : 's'} · seed {p.seed} · {p.standardize ? 'standardised' : 'raw units'} · {p.rows} rows{p.dropped ? ` (${p.dropped} with gaps left out)` : ''}
+          {(p.features ?? []).join(', ')} · {p.minComponents}–{p.maxComponents} components · {(p.covariances ?? []).join(', ')} · {p.restarts} restart{p.restarts === 1 ? '' : 's'} · seed {p.seed} · {p.standardize ? 'standardised' : 'raw units'} · {formatCount(p.rows)} rows{p.dropped ? ` (${formatCount(p.dropped)} with gaps left out)` : ''}
         </>
       }
     >
