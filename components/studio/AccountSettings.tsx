@@ -86,8 +86,8 @@ export function DeleteAccountForm({ email, blocked }: { email: string; blocked: 
     if (!matches) return setError('confirmEmail', { type: 'client', message: `Type ${email} exactly, to confirm.` });
     const result = await postJson<{ deleted: true }>('/api/account', values, 'DELETE');
     if (result.ok) {
-      // The answer cleared this browser's session cookies; start again from the front page.
-      window.location.assign('/?account=deleted');
+      // The answer cleared this browser's session cookies; a full load leaves nothing of the studio behind.
+      window.location.assign('/account-deleted');
       return;
     }
     const rest = placeServerIssues(setError, result.issues, (field) => (field === 'confirmEmail' || field === 'password' ? { name: field } : null));

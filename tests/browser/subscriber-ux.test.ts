@@ -219,7 +219,9 @@ describe('a new subscriber in the studio', () => {
     await p.getByLabel('Your password').fill(PASSWORD);
     await screenshot(p, 'subscriber-account-delete');
     await button.click();
-    await p.waitForURL(/\/\?account=deleted$/);
+    await p.waitForURL(/\/account-deleted$/);
+    await expect(p.locator('h1').textContent()).resolves.toBe('Your account is deleted');
+    await screenshot(p, 'subscriber-account-deleted');
     await p.goto(appUrl('/studio'));
     await p.waitForURL(/\/signin/);
     expect(await User.findByPk(solo.id)).toBeNull();
@@ -247,7 +249,7 @@ describe('a new subscriber in the studio', () => {
     await p.waitForURL(/\/studio\/models$/);
     await p.locator('#studio-menu').waitFor({ state: 'detached', timeout: 5_000 });
     const calculator = (await Embed.findOne({ where: { mixtureModelId: modelId } }))!;
-    for (const path of [`/studio/calculators/${calculator.id}`, `/studio/fits/${fitId}`, `/studio/models/${modelId}`, '/studio/calculators', '/studio/account', `/studio/datasets/${datasetId}`]) {
+    for (const path of ['/studio/team', '/studio/billing', `/studio/calculators/${calculator.id}`, `/studio/fits/${fitId}`, `/studio/models/${modelId}`, '/studio/calculators', '/studio/account', `/studio/datasets/${datasetId}`]) {
       await p.goto(appUrl(path));
       await p.locator('h1').first().waitFor();
       await expectNoSidewaysScroll(p);
