@@ -55,7 +55,10 @@ export function PasswordForm({ email }: { email: string }) {
     const result = await postJson<{ message: string }>('/api/account/password', values, 'PUT');
     if (result.ok) {
       reset();
-      return setBanner({ tone: 'success', text: result.data.message });
+      setBanner({ tone: 'success', text: result.data.message });
+      // The session ended with the old password: straight on to sign-in, back to this page after.
+      window.setTimeout(() => window.location.assign(`/signin?email=${encodeURIComponent(email)}&callbackUrl=${encodeURIComponent('/studio/account')}`), 1500);
+      return;
     }
     const rest = placeServerIssues(setError, result.issues, (field) => (field === 'currentPassword' || field === 'newPassword' ? { name: field } : null));
     setBanner({ tone: 'error', text: rest.length ? rest.join(' ') : result.issues.length ? fixFieldsNotice(result.issues.length) : result.message });

@@ -1,3 +1,5 @@
+import { assertStrongPassword } from './password-strength';
+import { endSessions } from '@/lib/auth/sessions';
 import bcrypt from 'bcryptjs';
 import { Op } from 'sequelize';
 import { recordAudit } from '@/lib/audit';
@@ -39,11 +41,13 @@ export async function updateProfile(user: User, input: UpdateProfileInput, reque
  */
 export async function changePassword(user: User, input: ChangePasswordInput, request?: Request): Promise<void> {
   await checkPassword(user, input.currentPassword, 'currentPassword');
-  // Another helper adds a password-strength check in lib/accounts; it belongs here, on input.newPassword.
+  assertStrongPassword(input.newPassword, { email: user.email, name: user.name }, 'newPassword');
   const passwordHash = await bcrypt.hash(input.newPassword, BCRYPT_ROUNDS);
   await sequelize.transaction(async (transaction) => {
     await user.update({ passwordHash }, { transaction });
     await AuthToken.destroy({ where: { userId: user.id, purpose: 'reset-password', usedAt: null }, transaction });
+    // Whoever knew the old password may hold a session: every session ends, this one too.
+    await endSessions([user.id], transaction);
   });
   await recordAudit({ action: 'account.password_changed', actor: { id: user.id, email: user.email }, targetType: 'user', targetId: user.id, request });
 }

@@ -9,7 +9,7 @@ import { DELETE as deleteAccountRoute, GET as meRoute, PATCH as profileRoute } f
 import { PUT as passwordRoute } from '@/app/api/account/password/route';
 import { GET as datasetsRoute } from '@/app/api/datasets/route';
 import { AuditEvent, AuthToken, Dataset, Membership, Subscription, User, Workspace } from '@/models';
-import { makeRequest } from '../../helpers/auth';
+import { makeRequest, sessionCookie } from '../../helpers/auth';
 
 const none = { params: Promise.resolve({}) };
 const PASSWORD = 'long enough secret 1';
@@ -62,8 +62,18 @@ describe('password', () => {
     expect(same.json.error.issues[0]).toEqual({ field: 'newPassword', message: 'Choose a password different from the current one.' });
     expect(await bcrypt.compare(PASSWORD, (await User.findByPk(u.id))!.passwordHash)).toBe(true);
 
+    // A common password is refused on the new-password field (the strength rules of sign-up and reset).
+    const common = await call(passwordRoute, 'PUT', u.id, { currentPassword: PASSWORD, newPassword: 'password1234' });
+    expect(common.status).toBe(422);
+    expect(common.json.error.issues[0].field).toBe('newPassword');
+
+    const before = (await User.findByPk(u.id))!.sessionGeneration;
     const ok = await call(passwordRoute, 'PUT', u.id, { currentPassword: PASSWORD, newPassword: 'a brand new secret' });
     expect(ok.status).toBe(200);
+    expect(ok.json.signInAgain).toBe(true);
+    // Every session made with the old password ends, this one included.
+    const old = await meRoute(new Request('http://localhost:3000/api/account', { headers: { cookie: await sessionCookie(u.id, undefined, { generation: before }) } }), { params: Promise.resolve({}) });
+    expect(old.status).toBe(401);
     const stored = (await User.findByPk(u.id))!.passwordHash;
     expect(await bcrypt.compare('a brand new secret', stored)).toBe(true);
     expect(await bcrypt.compare(PASSWORD, stored)).toBe(false);
