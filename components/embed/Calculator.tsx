@@ -2,7 +2,7 @@
 import { useEffect, useId, useMemo, useRef, useState, type FormEvent } from 'react';
 import type { CalculatorProps } from '@/lib/embeds/calculator-page';
 import { MembershipChart, preloadChart, type MembershipRow } from './MembershipChart';
-import { formatPercent } from './percent';
+import { formatProbability as formatPercent } from '@/lib/format';
 import { ReportForm } from './ReportForm';
 import { useHostSize } from './useHostSize';
 
