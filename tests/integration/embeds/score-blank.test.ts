@@ -10,6 +10,7 @@
 import { beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { makeRequest } from '../../helpers/auth';
 import { POST as scoreRoute } from '@/app/api/score/[token]/route';
+import { PATCH as patchModelRoute } from '@/app/api/models/[id]/route';
 import { payloadChecksum, validatePayload, type VersionPayload } from '@/lib/embeds/payload';
 import { publishNew, publishVersion } from '@/lib/embeds/service';
 import {
@@ -238,3 +239,34 @@ describe('the typicality sample of a published version', () => {
   });
 });
 
+
+describe("the publisher's choice in the studio", () => {
+  async function patchFields(modelId: number, fields: unknown) {
+    const res = await patchModelRoute(await makeRequest(`/api/models/${modelId}`, { method: 'PATCH', userId: ws.owner.id, json: { fields } }), { params: Promise.resolve({ id: String(modelId) }) });
+    return { status: res.status, json: await res.json() };
+  }
+
+  it('saves "may be left blank" per field, keeps fields sent without the choice required, and refuses anything but true or false', async () => {
+    const model = await createModel(ws.workspace.id, ws.owner.id, 3, 'Studio choice');
+    const plain = model.fields.map(({ optional: _o, ...f }) => f);
+    const saved = await patchFields(model.id, plain);
+    expect(saved.status).toBe(200);
+    expect(saved.json.model.fields.map((f: { optional: boolean }) => f.optional)).toEqual([false, false, false]);
+
+    const bad = await patchFields(model.id, plain.map((f, j) => (j === 1 ? { ...f, optional: 'yes' } : f)));
+    expect(bad.status).toBe(422);
+    expect(bad.json.error.issues.map((i: { field: string }) => i.field)).toContain('fields.1.optional');
+
+    const chosen = await patchFields(model.id, plain.map((f, j) => ({ ...f, optional: j === 0 })));
+    expect(chosen.status).toBe(200);
+    expect(((await MixtureModel.findByPk(model.id))!.fields).map((f) => f.optional)).toEqual([true, false, false]);
+
+    // Published, the choice holds: speed may be left blank, distance may not.
+    const t = (await publishNew(acting, { mixtureModelId: model.id, title: 'Studio choice' })).embed.token;
+    const got = await answer({ weekly_distance_km: 130, climb_per_ride_m: 420 }, t);
+    expect(got.unused).toEqual(['avg_speed_kmh']);
+    const refused = await post({ avg_speed_kmh: 25, climb_per_ride_m: 420 }, t);
+    expect(refused.status).toBe(422);
+    expect((await refused.json()).error.issues).toEqual([{ field: 'values.weekly_distance_km', message: 'Weekly distance is needed for this calculator.' }]);
+  });
+});
