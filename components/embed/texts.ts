@@ -33,13 +33,13 @@ export const reasonTexts = {
   heading: 'Why this group',
   /** Names the two groups the breakdown compares. */
   intro: (best: string, runnerUp: string) => `How each value weighs between ${best} and the next closest group, ${runnerUp}:`,
-  /** "Climbing per ride: well above the usual range for this group" */
-  position: (field: string, band: DistanceBand) => `${field}: ${bandWords[band]} for this group`,
+  /** "Climbing per ride: well above the usual range for this group." */
+  position: (field: string, band: DistanceBand) => `${field}: ${bandWords[band]} for this group.`,
   /** Which way the value pushed, from the sign of its contribution; strong = at least 2 (odds of about 7 to 1). */
   towards: (group: string, strong: boolean) => `${strong ? 'Points strongly' : 'Points'} towards ${group}.`,
   neither: 'Points to neither group.',
   /** The weight term: how common each group is in the data. */
-  groupSize: 'How common each group is',
+  groupSize: 'How common each group is:',
   groupSizeTowards: (larger: string) => `${larger} is the more common group in the data, which counts in its favour.`,
   /** For full and tied covariances the breakdown follows the chain rule, in field order. */
   inOrder: 'Each value is weighed after the ones above it, so a value that repeats what an earlier one already said counts for little.',
