@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
-import { appUrl, launchBrowser, screenshot } from '../helpers/browser';
+import { appUrl, launchBrowser, screenshot, signInContext } from '../helpers/browser';
+import { modelWorkspace } from '../integration/embeds/fixtures';
 
 /**
  * The seeded demo calculator lets visitors leave "Climbing per ride" blank: the field is
@@ -122,5 +123,28 @@ describe('blank fields on the demo calculator', () => {
     await screenshot(page, 'blank-fields-phone');
     expect(calls).toBe(1);
     await page.close();
+  });
+});
+
+describe("the publisher's choice in the studio", () => {
+  it('sets a field to "May be left blank" on the model page and saves it with the fields', async () => {
+    const { MixtureModel } = await import('@/models');
+    const ws = await modelWorkspace();
+    const context = await browser.newContext({ viewport: { width: 1280, height: 1000 } });
+    await signInContext(context, ws.owner.id, ws.workspace.id);
+    const page = await context.newPage();
+    await page.goto(appUrl(`/studio/models/${ws.model.id}`));
+    const speed = page.getByLabel('Must visitors fill in avg_speed_kmh?');
+    await expect(speed.inputValue()).resolves.toBe('required');
+    await speed.selectOption({ label: 'May be left blank' });
+    await page.getByRole('button', { name: 'Save names and fields' }).click();
+    await page.getByRole('status').filter({ hasText: 'Saved.' }).waitFor();
+    const saved = (await MixtureModel.findByPk(ws.model.id))!;
+    expect(saved.fields.map((f) => f.optional)).toEqual([true, false, false]);
+    await page.reload();
+    await expect(page.getByLabel('Must visitors fill in avg_speed_kmh?').inputValue()).resolves.toBe('optional');
+    await page.getByLabel('Must visitors fill in climb_per_ride_m?').scrollIntoViewIfNeeded();
+    await screenshot(page, 'blank-fields-studio');
+    await context.close();
   });
 });
