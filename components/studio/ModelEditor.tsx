@@ -152,7 +152,7 @@ export function ModelEditor(props: Props) {
                 <th className="py-2 pr-3 font-bold">From</th>
                 <th className="py-2 pr-3 font-bold">To</th>
                 <th className="py-2 pr-3 font-bold">Help text</th>
-                <th className="py-2 font-bold">Answer</th>
+                <th className="py-2 font-bold">Visitors</th>
               </tr>
             </thead>
             <tbody>
