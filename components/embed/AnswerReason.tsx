@@ -26,7 +26,7 @@ export function AnswerReason({ reason, groups, labelOf }: { reason: Reason; grou
   ];
   const largest = Math.max(NEGLIGIBLE, ...items.map((i) => Math.abs(i.contribution)));
   const direction = (c: number, isSize: boolean) => {
-    if (Math.abs(c) < NEGLIGIBLE) return t.neither;
+    if (Math.abs(c) < NEGLIGIBLE) return isSize ? t.equallyCommon : t.neither;
     const group = c > 0 ? best.label : runnerUp.label;
     return isSize ? t.groupSizeTowards(group) : t.towards(group, Math.abs(c) >= STRONG);
   };

@@ -40,6 +40,7 @@ export const reasonTexts = {
   neither: 'Points to neither group.',
   /** The weight term: how common each group is in the data. */
   groupSize: 'How common each group is:',
+  equallyCommon: 'The two groups are about equally common in the data.',
   groupSizeTowards: (larger: string) => `${larger} is the more common group in the data, which counts in its favour.`,
   /** For full and tied covariances the breakdown follows the chain rule, in field order. */
   inOrder: 'Each value is weighed after the ones above it, so a value that repeats what an earlier one already said counts for little.',
