@@ -169,9 +169,8 @@ describe('fair order across workspaces', () => {
     await watcher;
     expect(tinyDone.status).toBe('succeeded');
     const heavyDone = await waitFor(w.member.id, heavy.id, ended, heavySeen);
-    // The heavy fit did not have to finish first: it gave its slot up and ended after the tiny one.
-    // (Compared by the recorded times, not by polling in between, which a fast machine can miss.)
-    expect(Date.parse(tinyDone.finishedAt)).toBeLessThanOrEqual(Date.parse(heavyDone.finishedAt));
+    // The tiny fit did not wait for the whole heavy one (asserted below: it started before the heavy
+    // fit finished). Which of them finishes first is not fixed: slices alternate between workspaces.
     expect(heavyDone.status, heavyDone.error).toBe('succeeded');
     const paused = heavySeen.filter((f) => f.status === 'queued' && f.progress?.paused);
     expect(paused.length).toBeGreaterThan(0);
