@@ -68,6 +68,8 @@ export function Calculator(props: CalculatorProps) {
   const [busy, setBusy] = useState(false);
   const [shown, setShown] = useState<Shown | null>(null);
   const [notice, setNotice] = useState<Notice>(null);
+  // What the error live region says after a refused submit (typing fixes do not re-announce).
+  const [announcement, setAnnouncement] = useState('');
   const inputs = useRef<Record<string, HTMLInputElement | null>>({});
   // Guards against a second submit before React has re-rendered the disabled button.
   const inFlight = useRef(false);
@@ -85,8 +87,14 @@ export function Calculator(props: CalculatorProps) {
   }, []);
 
   const focusFirst = (errs: Record<string, string>) => {
-    const first = fields.find((f) => errs[f.feature]);
-    if (first) inputs.current[first.feature]?.focus();
+    const invalid = fields.filter((f) => errs[f.feature]);
+    if (!invalid.length) return;
+    // A changed text is announced even when the same mistakes are made twice in a row.
+    setAnnouncement((before) => {
+      const text = `${invalid.length === 1 ? 'One value needs' : `${invalid.length} values need`} attention: ${invalid.map((f) => errs[f.feature]).join(' ')}`;
+      return before === text ? `${text}\u00a0` : text;
+    });
+    inputs.current[invalid[0].feature]?.focus();
   };
 
   async function submit(event: FormEvent) {
@@ -102,6 +110,7 @@ export function Calculator(props: CalculatorProps) {
       focusFirst(errs);
       return;
     }
+    setAnnouncement('');
     const key = valuesKey(fields, values)!;
     if (shown && shown.key === key) {
       // The same numbers would get the same answer: nothing is sent or counted.
@@ -165,7 +174,8 @@ export function Calculator(props: CalculatorProps) {
         {fields.map((f) => {
           const id = `${formId}-${f.feature}`;
           const error = errors[f.feature];
-          const described = [f.help ? `${id}-help` : '', `${id}-range`, error ? `${id}-error` : ''].filter(Boolean).join(' ');
+          // The error first, then the hint (the help text sits inside the range line, so it is read once).
+          const described = [error ? `${id}-error` : '', `${id}-range`].filter(Boolean).join(' ');
           return (
             <div key={f.feature}>
               <label htmlFor={id} className="mb-1 block text-sm font-bold text-ink-soft dark:text-[#d5d9e2]">
@@ -197,7 +207,7 @@ export function Calculator(props: CalculatorProps) {
                 onBlur={(e) => {
                   if (e.target.value.trim()) setErrors((errs) => ({ ...errs, [f.feature]: checkField(f, e.target.value) ?? '' }));
                 }}
-                className="block w-full rounded-lg border border-ink/20 bg-white px-3 py-2 text-base text-ink focus:outline-none focus:ring-2 focus:ring-[var(--accent)] aria-[invalid=true]:border-clay-500 dark:border-white/20 dark:bg-[#1c2130] dark:text-[#f3efe7]"
+                className="block w-full rounded-lg border border-ink/50 bg-white px-3 py-2 text-base text-ink focus:outline-none focus:ring-2 focus:ring-[var(--accent)] aria-[invalid=true]:border-clay-500 dark:border-white/45 dark:bg-[#1c2130] dark:text-[#f3efe7] dark:aria-[invalid=true]:border-[#f1a595]"
               />
               <p id={`${id}-range`} className="mt-1 text-xs text-ink-soft dark:text-[#a9b0bf]">
                 {f.help ? <span id={`${id}-help`}>{f.help} </span> : null}
@@ -211,6 +221,10 @@ export function Calculator(props: CalculatorProps) {
             </div>
           );
         })}
+        {/* Field errors are spoken here as well as linked to their fields (aria-describedby). */}
+        <p aria-live="assertive" aria-atomic="true" className="sr-only" data-testid="error-announcer">
+          {announcement}
+        </p>
         <button type="submit" disabled={busy || !interactive} className="inline-flex w-full items-center justify-center rounded-full px-5 py-2.5 text-sm font-bold transition disabled:opacity-60 sm:w-auto" style={{ backgroundColor: 'var(--accent)', color: 'var(--accent-text)' }}>
           {busy ? 'Working it out…' : 'Show my groups'}
         </button>
