@@ -68,8 +68,6 @@ export function Calculator(props: CalculatorProps) {
   const [busy, setBusy] = useState(false);
   const [shown, setShown] = useState<Shown | null>(null);
   const [notice, setNotice] = useState<Notice>(null);
-  // What the error live region says after a refused submit (typing fixes do not re-announce).
-  const [announcement, setAnnouncement] = useState('');
   const inputs = useRef<Record<string, HTMLInputElement | null>>({});
   // Guards against a second submit before React has re-rendered the disabled button.
   const inFlight = useRef(false);
@@ -87,14 +85,8 @@ export function Calculator(props: CalculatorProps) {
   }, []);
 
   const focusFirst = (errs: Record<string, string>) => {
-    const invalid = fields.filter((f) => errs[f.feature]);
-    if (!invalid.length) return;
-    // A changed text is announced even when the same mistakes are made twice in a row.
-    setAnnouncement((before) => {
-      const text = `${invalid.length === 1 ? 'One value needs' : `${invalid.length} values need`} attention: ${invalid.map((f) => errs[f.feature]).join(' ')}`;
-      return before === text ? `${text}\u00a0` : text;
-    });
-    inputs.current[invalid[0].feature]?.focus();
+    const first = fields.find((f) => errs[f.feature]);
+    if (first) inputs.current[first.feature]?.focus();
   };
 
   async function submit(event: FormEvent) {
@@ -110,7 +102,6 @@ export function Calculator(props: CalculatorProps) {
       focusFirst(errs);
       return;
     }
-    setAnnouncement('');
     const key = valuesKey(fields, values)!;
     if (shown && shown.key === key) {
       // The same numbers would get the same answer: nothing is sent or counted.
@@ -213,18 +204,17 @@ export function Calculator(props: CalculatorProps) {
                 {f.help ? <span id={`${id}-help`}>{f.help} </span> : null}
                 Accepted: {rangeText(f)}.
               </p>
-              {error && (
-                <p id={`${id}-error`} className="mt-1 text-sm font-bold text-clay-700 dark:text-[#f1a595]">
-                  {error}
-                </p>
-              )}
+              {/* Always there, so a screen reader speaks an error as it appears (it is also linked to the field). */}
+              <div aria-live="polite" data-testid={`error-region-${f.feature}`}>
+                {error && (
+                  <p id={`${id}-error`} className="mt-1 text-sm font-bold text-clay-700 dark:text-[#f1a595]">
+                    {error}
+                  </p>
+                )}
+              </div>
             </div>
           );
         })}
-        {/* Field errors are spoken here as well as linked to their fields (aria-describedby). */}
-        <p aria-live="assertive" aria-atomic="true" className="sr-only" data-testid="error-announcer">
-          {announcement}
-        </p>
         <button type="submit" disabled={busy || !interactive} className="inline-flex w-full items-center justify-center rounded-full px-5 py-2.5 text-sm font-bold transition disabled:opacity-60 sm:w-auto" style={{ backgroundColor: 'var(--accent)', color: 'var(--accent-text)' }}>
           {busy ? 'Working it out…' : 'Show my groups'}
         </button>

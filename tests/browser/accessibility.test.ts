@@ -23,6 +23,7 @@ let demoToken = '';
 const demo = { ownerId: 0, staffId: 0, workspaceId: 0, datasetId: 0, fitId: 0, modelId: 0, embedId: 0 };
 
 const FIELDS = ['Average speed (km/h)', 'Weekly distance (km)', 'Climbing per ride (m)'];
+const FEATURES = ['avg_speed_kmh', 'weekly_distance_km', 'climb_per_ride_m'];
 
 beforeAll(async () => {
   browser = await launchBrowser();
@@ -112,7 +113,7 @@ describe('axe-core on the calculator (WCAG 2.1 A and AA)', () => {
         await check(page, `${name}-1-before`);
 
         await page.getByRole('button', { name: 'Show my groups' }).click();
-        await page.getByText('Enter Average speed.').waitFor();
+        await page.getByText('Enter Average speed.', { exact: true }).waitFor();
         await check(page, `${name}-2-field-errors`);
 
         await answer(page, ['31', '250', '640']);
@@ -243,15 +244,17 @@ describe('the calculator with the keyboard only', () => {
     await page.keyboard.press('Shift+Tab');
     expect((await focused(page))!.name).toMatch(/^Average speed/);
     await page.keyboard.press('Enter');
-    const announcer = page.getByTestId('error-announcer');
-    await expect.poll(() => announcer.textContent()).toBe('3 values need attention: Enter Average speed. Enter Weekly distance. Enter Climbing per ride.');
-    expect(await announcer.getAttribute('aria-live')).toBe('assertive');
-    for (const label of FIELDS) {
+    const region = (i: number) => page.getByTestId(`error-region-${FEATURES[i]}`);
+    await expect.poll(() => region(2).textContent()).toBe('Enter Climbing per ride.');
+    for (const [i, label] of FIELDS.entries()) {
       const input = page.getByLabel(label);
       expect(await input.getAttribute('aria-invalid')).toBe('true');
       const described = (await input.getAttribute('aria-describedby'))!.split(' ');
-      const error = await page.locator(`[id="${described[0]}"]`).textContent();
-      expect(error).toBe(`Enter ${label.replace(/ \(.*\)$/, '')}.`);
+      const error = page.locator(`[id="${described[0]}"]`);
+      expect(await error.textContent()).toBe(`Enter ${label.replace(/ \(.*\)$/, '')}.`);
+      // The error appeared inside a live region that was there before it (so it is spoken), the field's own one.
+      expect(await region(i).getAttribute('aria-live')).toBe('polite');
+      expect(await error.evaluate((el) => el.parentElement?.getAttribute('data-testid'))).toBe(`error-region-${FEATURES[i]}`);
     }
     expect((await focused(page))!.name).toMatch(/^Average speed/);
     await screenshot(page, 'a11y-keyboard-errors');
@@ -264,18 +267,20 @@ describe('the calculator with the keyboard only', () => {
     await page.keyboard.type('640');
     await page.keyboard.press('Enter');
     await expect.poll(async () => (await focused(page))?.name).toMatch(/^Weekly distance/);
-    await expect.poll(() => announcer.textContent()).toBe('One value needs attention: Weekly distance must be a number.');
+    await expect.poll(() => region(1).textContent()).toBe('Weekly distance must be a number.');
+    expect(await region(0).textContent()).toBe('');
+    expect(await region(2).textContent()).toBe('');
     expect(await page.getByLabel(FIELDS[0]).getAttribute('aria-invalid')).toBeNull();
     const distance = page.getByLabel(FIELDS[1]);
     expect(await distance.getAttribute('aria-invalid')).toBe('true');
     expect(await page.locator(`[id="${(await distance.getAttribute('aria-describedby'))!.split(' ')[0]}"]`).textContent()).toBe('Weekly distance must be a number.');
 
-    // Fix it and press Enter again: the answer arrives in the polite live region, the error announcement is gone.
+    // Fix it and press Enter again: the answer arrives in the polite live region, the errors are gone.
     await page.keyboard.press('ControlOrMeta+a');
     await page.keyboard.type('250');
     await page.keyboard.press('Enter');
     await page.waitForSelector('[data-chart-ready="true"] svg');
-    expect(await announcer.textContent()).toBe('');
+    for (const i of [0, 1, 2]) expect(await region(i).textContent()).toBe('');
     const result = page.locator('section[aria-live="polite"]');
     expect(await result.getByRole('heading', { level: 2 }).textContent()).toMatch(/^Most like: /);
     expect(await distance.getAttribute('aria-invalid')).toBeNull();
