@@ -1,4 +1,5 @@
-import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type ModelStatic, type Sequelize } from 'sequelize';
+import { numberWithinWorkspace } from './workspace-number';
 
 /** Per-column facts found at upload, plus the analyst's display settings. */
 export interface DatasetColumn {
@@ -23,6 +24,8 @@ export interface DatasetColumn {
 export class Dataset extends Model<InferAttributes<Dataset>, InferCreationAttributes<Dataset>> {
   declare id: CreationOptional<number>;
   declare workspaceId: ForeignKey<number>;
+  /** Its number within the workspace (1, 2, …), set on insert; shown to people, while addresses use the id. */
+  declare number: CreationOptional<number>;
   declare createdById: ForeignKey<number | null>;
   declare name: string;
   declare originalFilename: string;
@@ -40,6 +43,7 @@ export class Dataset extends Model<InferAttributes<Dataset>, InferCreationAttrib
       {
         id: { type: DataTypes.INTEGER, autoIncrement: true, primaryKey: true },
         workspaceId: { type: DataTypes.INTEGER, allowNull: false },
+        number: { type: DataTypes.INTEGER, allowNull: true },
         createdById: { type: DataTypes.INTEGER, allowNull: true },
         name: { type: DataTypes.STRING(200), allowNull: false },
         originalFilename: { type: DataTypes.STRING(255), allowNull: false },
@@ -52,5 +56,6 @@ export class Dataset extends Model<InferAttributes<Dataset>, InferCreationAttrib
       },
       { sequelize, tableName: 'datasets', modelName: 'Dataset' },
     );
+    numberWithinWorkspace(Dataset as unknown as ModelStatic<Model>, 'datasets');
   }
 }

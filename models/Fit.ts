@@ -1,4 +1,5 @@
-import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type ModelStatic, type Sequelize } from 'sequelize';
+import { numberWithinWorkspace } from './workspace-number';
 
 export const FIT_STATUSES = ['queued', 'running', 'succeeded', 'failed', 'cancelled'] as const;
 export type FitStatus = (typeof FIT_STATUSES)[number];
@@ -7,6 +8,8 @@ export type FitStatus = (typeof FIT_STATUSES)[number];
 export class Fit extends Model<InferAttributes<Fit>, InferCreationAttributes<Fit>> {
   declare id: CreationOptional<number>;
   declare workspaceId: ForeignKey<number>;
+  /** Its number within the workspace (1, 2, …), set on insert; shown to people, while addresses use the id. */
+  declare number: CreationOptional<number>;
   declare datasetId: ForeignKey<number>;
   declare createdById: ForeignKey<number | null>;
   declare status: CreationOptional<FitStatus>;
@@ -31,6 +34,7 @@ export class Fit extends Model<InferAttributes<Fit>, InferCreationAttributes<Fit
       {
         id: { type: DataTypes.INTEGER, autoIncrement: true, primaryKey: true },
         workspaceId: { type: DataTypes.INTEGER, allowNull: false },
+        number: { type: DataTypes.INTEGER, allowNull: true },
         datasetId: { type: DataTypes.INTEGER, allowNull: false },
         createdById: { type: DataTypes.INTEGER, allowNull: true },
         status: { type: DataTypes.STRING(16), allowNull: false, defaultValue: 'queued' },
@@ -49,5 +53,6 @@ export class Fit extends Model<InferAttributes<Fit>, InferCreationAttributes<Fit
       },
       { sequelize, tableName: 'fits', modelName: 'Fit' },
     );
+    numberWithinWorkspace(Fit as unknown as ModelStatic<Model>, 'fits');
   }
 }

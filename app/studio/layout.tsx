@@ -17,7 +17,7 @@ export default async function StudioLayout({ children }: { children: React.React
       <div className="print:hidden">
         <StudioHeader user={{ name: actor.user.name, email: actor.user.email }} isStaff={actor.isStaff} role={current?.role ?? null} workspaces={workspaces} currentWorkspaceId={current?.workspace.id ?? null} />
       </div>
-      <main className="mx-auto max-w-6xl px-6 py-8">{children}</main>
+      <main className="mx-auto max-w-6xl px-4 py-8 sm:px-6">{children}</main>
     </div>
   );
 }

@@ -42,7 +42,7 @@ function CheckInbox({ email, showMailSink }: { email: string; showMailSink: bool
   );
 }
 
-export function SignUpForm({ showMailSink = false }: { showMailSink?: boolean }) {
+export function SignUpForm({ showMailSink = false, plan }: { showMailSink?: boolean; plan?: 'bench' | 'lab' }) {
   const [banner, setBanner] = useState<string | null>(null);
   const [sentTo, setSentTo] = useState<string | null>(null);
   const { register, handleSubmit, setError, formState } = useForm<SignUpInput>({ resolver: zodResolver(signUpSchema), mode: 'onTouched' });
@@ -50,7 +50,7 @@ export function SignUpForm({ showMailSink = false }: { showMailSink?: boolean })
 
   const onSubmit = handleSubmit(async (values) => {
     setBanner(null);
-    const result = await postJson<{ message: string }>('/api/account/signup', values);
+    const result = await postJson<{ message: string }>('/api/account/signup', plan ? { ...values, plan } : values);
     if (result.ok) {
       setSentTo(values.email);
       return;

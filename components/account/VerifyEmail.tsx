@@ -10,7 +10,7 @@ import { EmailRequestForm } from './EmailRequestForm';
  * from the page (not on GET of the link), so mail scanners that prefetch links do
  * not use up the token.
  */
-export function VerifyEmail({ token }: { token: string }) {
+export function VerifyEmail({ token, plan }: { token: string; plan?: string }) {
   const [state, setState] = useState<{ kind: 'working' } | { kind: 'done'; email: string } | { kind: 'failed'; message: string }>({ kind: 'working' });
   const started = useRef(false);
   useEffect(() => {
@@ -24,7 +24,8 @@ export function VerifyEmail({ token }: { token: string }) {
     return (
       <div className="space-y-4">
         <FormBanner tone="success">Thank you — {state.email} is confirmed. You can sign in now.</FormBanner>
-        <Link href={`/signin?email=${encodeURIComponent(state.email)}`} className="pw-button">
+        {/* The plan picked before signing up waits on the billing page after sign-in. */}
+        <Link href={`/signin?email=${encodeURIComponent(state.email)}${plan ? `&callbackUrl=${encodeURIComponent(`/studio/billing?plan=${plan}#plans`)}` : ''}`} className="pw-button">
           Sign in
         </Link>
       </div>

@@ -1,7 +1,7 @@
 'use client';
 
 import { useRouter } from 'next/navigation';
-import { useState } from 'react';
+import { useEffect, useRef, useState } from 'react';
 import type { PlanChangePreview } from '@/lib/billing/subscriptions';
 import { billingRequest } from './api';
 import { bytes, day, euros, whole } from './format';
@@ -21,6 +21,8 @@ interface Props {
   paid: boolean;
   cancelAtPeriodEnd: boolean;
   periodEnd: string | null;
+  /** A plan picked on the plans page before signing up: its confirm step opens by itself. */
+  suggestedPlan?: string;
 }
 
 /**
@@ -29,7 +31,7 @@ interface Props {
  * at once with the difference prorated; the free plan ends the subscription with
  * its period. Every change asks once before it is made.
  */
-export function PlanChooser({ plans, currentPlan, paid, cancelAtPeriodEnd, periodEnd }: Props) {
+export function PlanChooser({ plans, currentPlan, paid, cancelAtPeriodEnd, periodEnd, suggestedPlan }: Props) {
   const router = useRouter();
   const [pending, setPending] = useState<string | null>(null);
   const [confirming, setConfirming] = useState<string | null>(null);
@@ -48,6 +50,15 @@ export function PlanChooser({ plans, currentPlan, paid, cancelAtPeriodEnd, perio
       setPreview((p) => (p?.plan === planId ? { plan: planId, error: (e as Error).message } : p));
     }
   }
+
+  const suggested = useRef(false);
+  useEffect(() => {
+    if (suggested.current || !suggestedPlan || suggestedPlan === currentPlan || !plans.some((p) => p.id === suggestedPlan)) return;
+    suggested.current = true;
+    void openConfirm(suggestedPlan);
+    // Only once, on the page's first render.
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, []);
 
   async function act(planId: string) {
     setError(null);
@@ -120,6 +131,7 @@ export function PlanChooser({ plans, currentPlan, paid, cancelAtPeriodEnd, perio
                 )}
                 {confirming === p.id && (
                   <div className="rounded-lg bg-paper p-3 text-sm ring-1 ring-ink/10">
+                    {p.id === suggestedPlan && <p className="mb-2 font-bold text-moss-700">You picked {p.name} when you signed up.</p>}
                     <p>{consequence(p)}</p>
                     <PreviewFigures preview={preview?.plan === p.id ? preview : null} />
                     <div className="mt-3 flex gap-2">

@@ -3,6 +3,7 @@ import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import { ErrorNote } from '@/components/studio/StudioPage';
 import { servedVersionWords } from '@/lib/embeds/status-words';
+import { formatDateTime } from '@/lib/format';
 import { callApi, type ApiFailure } from './api';
 
 interface Version {
@@ -33,6 +34,7 @@ export function VersionList({ embedId, versions, activeVersionId, models, curren
 
   return (
     <div className="space-y-4">
+      <div className="overflow-x-auto">
       <table className="w-full text-left text-sm">
         <caption className="sr-only">Published versions</caption>
         <thead className="border-b border-ink/10 text-ink-soft">
@@ -56,7 +58,7 @@ export function VersionList({ embedId, versions, activeVersionId, models, curren
                 )}
               </td>
               <td className="py-2 pr-3">{v.modelName}</td>
-              <td className="py-2 pr-3 text-ink-soft">{new Date(v.createdAt).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' })}</td>
+              <td className="py-2 pr-3 text-ink-soft">{formatDateTime(v.createdAt)}</td>
               <td className="hidden py-2 pr-3 font-mono text-xs text-ink-faint md:table-cell" title={v.checksum}>{v.checksum.slice(0, 12)}…</td>
               <td className="py-2 text-right">
                 {v.id === activeVersionId ? (
@@ -73,6 +75,7 @@ export function VersionList({ embedId, versions, activeVersionId, models, curren
           ))}
         </tbody>
       </table>
+      </div>
       <div className="flex flex-wrap items-end gap-3">
         <div className="min-w-[12rem] flex-1">
           <label htmlFor="again-model" className="pw-label">Publish a new version from</label>

@@ -12,15 +12,15 @@ export function ClusterSizesChart({ clusters, labels, colors }: { clusters: { we
     mark: { type: 'bar', cornerRadiusEnd: 3 },
     encoding: {
       y: { field: 'cluster', type: 'nominal', title: null, sort: null },
-      x: { field: 'weight', type: 'quantitative', title: 'Mixing weight', axis: { format: '.0%' } },
+      x: { field: 'weight', type: 'quantitative', title: 'Share of data (mixing weight)', axis: { format: '.0%' } },
       color: { field: 'cluster', type: 'nominal', scale: { domain: labels, range: colors }, legend: null },
       tooltip: [
         { field: 'cluster', title: 'Cluster' },
-        { field: 'weight', title: 'Weight', format: '.1%' },
+        { field: 'weight', title: 'Share of data', format: '.1%' },
         { field: 'soft', title: 'Soft count', format: ',.1f' },
         { field: 'hard', title: 'Rows most likely here', format: ',d' },
       ],
     },
   };
-  return <VegaChart spec={spec} label="Mixing weight of each cluster" className="w-full" />;
+  return <VegaChart spec={spec} label="Share of the data (mixing weight) of each cluster" className="w-full" />;
 }

@@ -23,7 +23,7 @@ export function PricingTable() {
               <li>Datasets up to {number.format(plan.limits.datasetRows)} rows</li>
               <li>{plan.limits.seats} seat{plan.limits.seats === 1 ? '' : 's'}</li>
             </ul>
-            <Link href="/signup" className={`mt-6 ${featured ? 'pw-button' : 'pw-button-quiet'}`}>
+            <Link href={plan.monthlyPrice === 0 ? '/signup' : `/signup?plan=${id}`} className={`mt-6 ${featured ? 'pw-button' : 'pw-button-quiet'}`}>
               {plan.monthlyPrice === 0 ? 'Start free' : `Choose ${plan.name}`}
             </Link>
           </article>

@@ -13,22 +13,30 @@ import { WorkspaceSwitcher } from './WorkspaceSwitcher';
 export function StudioHeader(props: { user: { name: string; email: string }; isStaff: boolean; role: WorkspaceRole | null; workspaces: WorkspaceChoice[]; currentWorkspaceId: number | null }) {
   const items: NavItem[] = [];
   if (props.role) {
-    items.push({ href: '/studio/datasets', label: 'Datasets' }, { href: '/studio/fits', label: 'Fits' }, { href: '/studio/calculators', label: 'Calculators' }, { href: '/studio/team', label: 'Team' });
+    items.push({ href: '/studio/datasets', label: 'Datasets' }, { href: '/studio/fits', label: 'Fits' }, { href: '/studio/models', label: 'Models' }, { href: '/studio/calculators', label: 'Calculators' }, { href: '/studio/team', label: 'Team' });
     if (props.role === 'owner') items.push({ href: '/studio/billing', label: 'Billing' });
   }
   if (props.isStaff) items.push({ href: '/support', label: 'Support' });
   const roleLabel = props.isStaff ? 'Partwise staff' : props.role === 'owner' ? 'Owner of this workspace' : props.role === 'member' ? 'Member of this workspace' : 'No workspace';
   return (
     <header className="border-b border-ink/10 bg-white/70">
-      <div className="mx-auto flex max-w-6xl flex-wrap items-center gap-x-6 gap-y-3 px-6 py-3">
-        <Link href="/studio" aria-label="Studio overview">
+      <div className="mx-auto flex max-w-6xl flex-wrap items-center gap-x-3 gap-y-2 px-4 py-3 sm:gap-x-6 sm:px-6">
+        <Link href="/studio" aria-label="Studio overview" className="shrink-0">
           <Logo />
         </Link>
-        {props.currentWorkspaceId ? <WorkspaceSwitcher workspaces={props.workspaces} currentId={props.currentWorkspaceId} /> : null}
-        <div className="flex-1">
+        {/* Narrow screens: the workspace gets a line of its own under the logo and menus. */}
+        {props.currentWorkspaceId ? (
+          <div className="order-last w-full min-w-0 truncate sm:order-none sm:w-auto">
+            <WorkspaceSwitcher workspaces={props.workspaces} currentId={props.currentWorkspaceId} />
+          </div>
+        ) : null}
+        <div className="flex-1 lg:flex-1">
           <StudioNav items={items} />
         </div>
-        <UserMenu name={props.user.name} email={props.user.email} role={roleLabel} />
+        {/* At phone widths the menu shows initials only; the name is inside it. */}
+        <div className="min-w-0 max-sm:[&_summary>span:last-child]:hidden max-sm:[&_summary]:pr-1">
+          <UserMenu name={props.user.name} email={props.user.email} role={roleLabel} />
+        </div>
       </div>
     </header>
   );

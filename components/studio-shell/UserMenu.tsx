@@ -1,6 +1,7 @@
 'use client';
 
 import { useState } from 'react';
+import Link from 'next/link';
 import { signOut } from 'next-auth/react';
 import { SessionRenewal } from './SessionRenewal';
 
@@ -39,7 +40,10 @@ export function UserMenu({ name, email, role }: { name: string; email: string; r
         <p className="truncate text-sm font-bold">{name}</p>
         <p className="truncate text-sm text-ink-soft">{email}</p>
         <p className="mt-1 text-xs text-ink-faint">{role}</p>
-        <button type="button" className="pw-button-quiet mt-4 w-full" onClick={() => signOut({ callbackUrl: '/' })}>
+        <Link href="/studio/account" className="pw-button-quiet mt-4 w-full" onClick={(e) => e.currentTarget.closest('details')?.removeAttribute('open')}>
+          Your account
+        </Link>
+        <button type="button" className="pw-button-quiet mt-2 w-full" onClick={() => signOut({ callbackUrl: '/' })}>
           Sign out
         </button>
         <button type="button" className="pw-button-quiet mt-2 w-full" disabled={ending} onClick={() => void signOutEverywhere()}>

@@ -1,4 +1,4 @@
-import { count, num, pct } from './format';
+import { formatCount, formatFixed, formatMeanSd, formatPercent } from '@/lib/format';
 
 export interface StatsCluster {
   weight: number;
@@ -9,7 +9,7 @@ export interface StatsCluster {
   sds: number[];
 }
 
-/** Per-cluster weight, sizes, certainty, and mean ± standard deviation of each feature in original units. */
+/** Per-cluster share of the data (mixing weight), sizes, certainty, and mean ± standard deviation of each feature in original units. */
 export function ClusterStatsTable({ clusters, labels, colors, features }: { clusters: StatsCluster[]; labels: string[]; colors: string[]; features: { name: string; unit?: string }[] }) {
   return (
     <div className="overflow-x-auto">
@@ -17,7 +17,9 @@ export function ClusterStatsTable({ clusters, labels, colors, features }: { clus
         <thead className="border-b border-ink/10 text-ink-soft">
           <tr>
             <th className="py-2 pr-4 font-bold">Cluster</th>
-            <th className="py-2 pr-4 text-right font-bold">Weight</th>
+            <th className="py-2 pr-4 text-right font-bold" title="The mixing weight: the share of the data this cluster describes">
+              Share of data
+            </th>
             <th className="py-2 pr-4 text-right font-bold" title="Sum of membership probabilities">
               Soft count
             </th>
@@ -41,15 +43,15 @@ export function ClusterStatsTable({ clusters, labels, colors, features }: { clus
                   {labels[k]}
                 </span>
               </td>
-              <td className="py-2 pr-4 text-right tabular-nums">{pct(c.weight, 1)}</td>
+              <td className="py-2 pr-4 text-right tabular-nums">{formatPercent(c.weight, 1)}</td>
               <td className="py-2 pr-4 text-right tabular-nums">
-                {num(c.softCount, 1)}
-                <span className="block text-xs text-ink-faint">{count(c.hardCount)} most likely</span>
+                {formatFixed(c.softCount, 1)}
+                <span className="block text-xs text-ink-faint">{formatCount(c.hardCount)} most likely</span>
               </td>
-              <td className="py-2 pr-4 text-right tabular-nums">{pct(c.certainty)}</td>
+              <td className="py-2 pr-4 text-right tabular-nums">{formatPercent(c.certainty)}</td>
               {c.means.map((m, j) => (
                 <td key={j} className="py-2 pr-4 text-right tabular-nums">
-                  {num(m)} <span className="text-ink-faint">± {num(c.sds[j])}</span>
+                  {formatMeanSd(m, c.sds[j])}
                 </td>
               ))}
             </tr>

@@ -1,5 +1,5 @@
 import type { DatasetColumn } from '@/models/Dataset';
-import { count, num } from './format';
+import { formatCount as count, formatNumber as num } from '@/lib/format';
 
 /** Per-column facts found at upload. */
 export function ColumnTable({ columns, rows }: { columns: DatasetColumn[]; rows: number }) {

@@ -2,9 +2,11 @@
 
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
+import { useForm } from 'react-hook-form';
 import type { DatasetColumn } from '@/models/Dataset';
+import { formatNumber } from '@/lib/format';
 import { api, ApiError } from './client-api';
-import { num } from './format';
+import { fixFieldsNotice, parseTypedNumber, placeServerIssues } from './form-issues';
 import { ErrorNote } from './StudioPage';
 
 interface Row {
@@ -17,43 +19,44 @@ interface Row {
   max: number | null;
 }
 
+const enterNumber = 'Enter a number, like 12 or 12.5.';
+
 /** Display name, unit and the input range a calculator accepts, per numeric column. */
 export function FeatureSettingsForm({ datasetId, columns }: { datasetId: number; columns: DatasetColumn[] }) {
   const router = useRouter();
-  const [rows, setRows] = useState<Row[]>(
-    columns
-      .filter((c) => c.kind === 'numeric')
-      .map((c) => ({ name: c.name, displayName: c.displayName ?? c.name, unit: c.unit ?? '', inputMin: String(c.inputMin ?? c.min ?? ''), inputMax: String(c.inputMax ?? c.max ?? ''), min: c.min, max: c.max })),
-  );
-  const [error, setError] = useState<ApiError | null>(null);
+  const initial: Row[] = columns
+    .filter((c) => c.kind === 'numeric')
+    .map((c) => ({ name: c.name, displayName: c.displayName ?? c.name, unit: c.unit ?? '', inputMin: String(c.inputMin ?? c.min ?? ''), inputMax: String(c.inputMax ?? c.max ?? ''), min: c.min, max: c.max }));
+  const { register, handleSubmit, setError, getValues, formState } = useForm<{ rows: Row[] }>({ defaultValues: { rows: initial } });
+  const [notice, setNotice] = useState<string | null>(null);
   const [saved, setSaved] = useState(false);
-  const [busy, setBusy] = useState(false);
-  const set = (i: number, patch: Partial<Row>) => {
-    setSaved(false);
-    setRows((rs) => rs.map((r, j) => (j === i ? { ...r, ...patch } : r)));
-  };
-  const issueFor = (i: number, field: string) => error?.issues.find((x) => x.field === `features.${i}.${field}`)?.message;
+  const busy = formState.isSubmitting;
+  const rows = initial;
+  const rowErrors = formState.errors.rows;
+  const touch = { onChange: () => setSaved(false) };
 
-  async function save(e: React.FormEvent) {
-    e.preventDefault();
-    setBusy(true);
-    setError(null);
+  const save = handleSubmit(async (values) => {
+    setNotice(null);
     try {
       await api(`/api/datasets/${datasetId}`, {
         method: 'PATCH',
-        json: { features: rows.map((r) => ({ name: r.name, displayName: r.displayName, unit: r.unit, inputMin: Number(r.inputMin), inputMax: Number(r.inputMax) })) },
+        json: { features: values.rows.map((r) => ({ name: r.name, displayName: r.displayName, unit: r.unit, inputMin: parseTypedNumber(r.inputMin), inputMax: parseTypedNumber(r.inputMax) })) },
       });
       setSaved(true);
       router.refresh();
     } catch (err) {
-      setError(err instanceof ApiError ? err : new ApiError('Could not save.', 0));
-    } finally {
-      setBusy(false);
+      const failure = err instanceof ApiError ? err : new ApiError('Could not save. Check the connection and try again.', 0);
+      // The server names rows as features.N.field; the same N is the row on this screen.
+      const rest = placeServerIssues(setError, failure.issues, (field) => {
+        const m = /^features\.(\d+)\.(displayName|unit|inputMin|inputMax)$/.exec(field);
+        return m ? { name: `rows.${Number(m[1])}.${m[2] as 'unit'}` } : null;
+      });
+      setNotice(rest.length ? failure.message : failure.issues.length ? fixFieldsNotice(failure.issues.length) : failure.message);
     }
-  }
+  });
 
   return (
-    <form onSubmit={save} className="space-y-4">
+    <form onSubmit={save} onChange={() => notice && setNotice(null)} noValidate className="space-y-4" aria-label="Feature settings">
       <div className="overflow-x-auto">
         <table className="w-full text-left text-sm">
           <thead className="text-ink-soft">
@@ -71,22 +74,37 @@ export function FeatureSettingsForm({ datasetId, columns }: { datasetId: number;
               <tr key={r.name} className="align-top">
                 <td className="py-1.5 pr-3 pt-3.5 font-mono text-xs">{r.name}</td>
                 <td className="py-1.5 pr-3">
-                  <input aria-label={`Display name of ${r.name}`} className="pw-input py-1.5 text-sm" value={r.displayName} onChange={(e) => set(i, { displayName: e.target.value })} maxLength={80} />
-                  {issueFor(i, 'displayName') && <p className="pw-field-error">{issueFor(i, 'displayName')}</p>}
+                  <input aria-label={`Display name of ${r.name}`} className="pw-input py-1.5 text-sm" maxLength={80} aria-invalid={rowErrors?.[i]?.displayName ? true : undefined} {...register(`rows.${i}.displayName`, { ...touch, validate: (v) => v.trim().length > 0 || 'Give the feature a name people will read.' })} />
+                  {rowErrors?.[i]?.displayName && <p className="pw-field-error">{rowErrors[i]!.displayName!.message}</p>}
                 </td>
                 <td className="w-24 py-1.5 pr-3">
-                  <input aria-label={`Unit of ${r.name}`} className="pw-input py-1.5 text-sm" value={r.unit} onChange={(e) => set(i, { unit: e.target.value })} maxLength={24} />
+                  <input aria-label={`Unit of ${r.name}`} className="pw-input py-1.5 text-sm" maxLength={24} {...register(`rows.${i}.unit`, touch)} />
+                  {rowErrors?.[i]?.unit && <p className="pw-field-error">{rowErrors[i]!.unit!.message}</p>}
                 </td>
                 <td className="w-28 py-1.5 pr-3">
-                  <input aria-label={`Lowest accepted ${r.name}`} className="pw-input py-1.5 text-sm tabular-nums" inputMode="decimal" value={r.inputMin} onChange={(e) => set(i, { inputMin: e.target.value })} />
-                  {issueFor(i, 'inputMin') && <p className="pw-field-error">{issueFor(i, 'inputMin')}</p>}
+                  <input aria-label={`Lowest accepted ${r.name}`} className="pw-input py-1.5 text-sm tabular-nums" inputMode="decimal" aria-invalid={rowErrors?.[i]?.inputMin ? true : undefined} {...register(`rows.${i}.inputMin`, { ...touch, validate: (v) => parseTypedNumber(v) !== null || enterNumber })} />
+                  {rowErrors?.[i]?.inputMin && <p className="pw-field-error">{rowErrors[i]!.inputMin!.message}</p>}
                 </td>
                 <td className="w-28 py-1.5 pr-3">
-                  <input aria-label={`Highest accepted ${r.name}`} className="pw-input py-1.5 text-sm tabular-nums" inputMode="decimal" value={r.inputMax} onChange={(e) => set(i, { inputMax: e.target.value })} />
-                  {issueFor(i, 'inputMax') && <p className="pw-field-error">{issueFor(i, 'inputMax')}</p>}
+                  <input
+                    aria-label={`Highest accepted ${r.name}`}
+                    className="pw-input py-1.5 text-sm tabular-nums"
+                    inputMode="decimal"
+                    aria-invalid={rowErrors?.[i]?.inputMax ? true : undefined}
+                    {...register(`rows.${i}.inputMax`, {
+                      ...touch,
+                      validate: (v) => {
+                        const hi = parseTypedNumber(v);
+                        if (hi === null) return enterNumber;
+                        const lo = parseTypedNumber(getValues(`rows.${i}.inputMin`));
+                        return lo === null || lo < hi || 'Make this higher than the lowest accepted value.';
+                      },
+                    })}
+                  />
+                  {rowErrors?.[i]?.inputMax && <p className="pw-field-error">{rowErrors[i]!.inputMax!.message}</p>}
                 </td>
                 <td className="py-1.5 pt-3.5 text-xs text-ink-faint tabular-nums">
-                  {num(r.min)} – {num(r.max)}
+                  {formatNumber(r.min)} – {formatNumber(r.max)}
                 </td>
               </tr>
             ))}
@@ -99,7 +117,8 @@ export function FeatureSettingsForm({ datasetId, columns }: { datasetId: number;
         </button>
         {saved && <span className="text-sm font-bold text-moss-700" role="status">Saved.</span>}
       </div>
-      {error && <ErrorNote message={error.message} issues={error.issues} />}
+      {notice && <ErrorNote message={notice} />}
+      {!notice && rowErrors && <p className="text-sm font-bold text-clay-700" role="alert">Some values need a change; see the marked fields.</p>}
     </form>
   );
 }

@@ -4,7 +4,8 @@ import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import type { DatasetColumn } from '@/models/Dataset';
 import { api, ApiError } from './client-api';
-import { STRUCTURE_HELP } from './format';
+import { STRUCTURE_HELP } from './structures';
+import { fixFieldsNotice } from './form-issues';
 import { ErrorNote } from './StudioPage';
 
 const STRUCTURES = ['full', 'diagonal', 'spherical', 'tied'] as const;
@@ -19,6 +20,8 @@ export interface FitDefaults {
   maxIter: number;
   tol: number;
 }
+
+const PLACED = ['features', 'minComponents', 'maxComponents', 'covariances', 'restarts', 'seed', 'maxIter', 'tol'];
 
 /** Choose features, the component range, structures, restarts, seed and standardisation; start a job. */
 export function FitForm({ datasetId, columns, defaults, maxComponentsAllowed }: { datasetId: number; columns: DatasetColumn[]; defaults: FitDefaults; maxComponentsAllowed: number }) {
@@ -35,6 +38,9 @@ export function FitForm({ datasetId, columns, defaults, maxComponentsAllowed }: 
   const [tol, setTol] = useState(defaults.tol);
   const [busy, setBusy] = useState(false);
   const [error, setError] = useState<ApiError | null>(null);
+  // Server issues next to their fields; the notice says how many, or carries what no field shows.
+  const issue = (field: string) => error?.issues.find((i) => i.field === field)?.message;
+  const placed = error?.issues.filter((i) => PLACED.includes(i.field)).length ?? 0;
   const toggle = (list: string[], v: string) => (list.includes(v) ? list.filter((x) => x !== v) : [...list, v]);
   const candidates = Math.max(0, maxK - minK + 1) * structures.length;
   const dropped = Math.max(0, ...numeric.filter((c) => features.includes(c.name)).map((c) => c.missing));
@@ -57,7 +63,7 @@ export function FitForm({ datasetId, columns, defaults, maxComponentsAllowed }: 
 
   return (
     <form onSubmit={start} className="space-y-6" aria-label="Fit settings">
-      <fieldset>
+      <fieldset className="min-w-0">
         <legend className="pw-label">Features</legend>
         <div className="flex flex-wrap gap-2">
           {numeric.map((c) => (
@@ -68,21 +74,23 @@ export function FitForm({ datasetId, columns, defaults, maxComponentsAllowed }: 
             </label>
           ))}
         </div>
+        {issue('features') && <p className="pw-field-error">{issue('features')}</p>}
         <p className="mt-2 text-xs text-ink-faint">
           {features.length} chosen. {dropped > 0 ? `At least ${dropped} row${dropped === 1 ? '' : 's'} with a gap in a chosen feature will be left out.` : 'No chosen feature has gaps.'}
         </p>
       </fieldset>
       <div className="grid gap-6 md:grid-cols-2">
-        <fieldset>
+        <fieldset className="min-w-0">
           <legend className="pw-label">Components to try</legend>
           <div className="flex items-center gap-2">
             <input aria-label="Fewest components" type="number" className="pw-input w-20" min={1} max={maxComponentsAllowed} value={minK} onChange={(e) => setMinK(Number(e.target.value))} />
             <span className="text-ink-soft">to</span>
             <input aria-label="Most components" type="number" className="pw-input w-20" min={1} max={maxComponentsAllowed} value={maxK} onChange={(e) => setMaxK(Number(e.target.value))} />
           </div>
+          {(issue('minComponents') || issue('maxComponents')) && <p className="pw-field-error">{issue('minComponents') ?? issue('maxComponents')}</p>}
           <p className="mt-2 text-xs text-ink-faint">{candidates} candidate models; BIC picks among them, you may overrule it.</p>
         </fieldset>
-        <fieldset>
+        <fieldset className="min-w-0">
           <legend className="pw-label">Covariance structures</legend>
           <div className="grid grid-cols-2 gap-2">
             {STRUCTURES.map((s) => (
@@ -95,6 +103,7 @@ export function FitForm({ datasetId, columns, defaults, maxComponentsAllowed }: 
               </label>
             ))}
           </div>
+          {issue('covariances') && <p className="pw-field-error">{issue('covariances')}</p>}
         </fieldset>
       </div>
       <div className="grid gap-6 sm:grid-cols-2 md:grid-cols-4">
@@ -103,24 +112,28 @@ export function FitForm({ datasetId, columns, defaults, maxComponentsAllowed }: 
             Restarts
           </label>
           <input id="restarts" type="number" className="pw-input" min={1} max={20} value={restarts} onChange={(e) => setRestarts(Number(e.target.value))} />
+          {issue('restarts') && <p className="pw-field-error">{issue('restarts')}</p>}
         </div>
         <div>
           <label className="pw-label" htmlFor="seed">
             Seed
           </label>
           <input id="seed" type="number" className="pw-input" min={0} value={seed} onChange={(e) => setSeed(Number(e.target.value))} />
+          {issue('seed') && <p className="pw-field-error">{issue('seed')}</p>}
         </div>
         <div>
           <label className="pw-label" htmlFor="maxIter">
             Iteration cap
           </label>
           <input id="maxIter" type="number" className="pw-input" min={5} max={2000} value={maxIter} onChange={(e) => setMaxIter(Number(e.target.value))} />
+          {issue('maxIter') && <p className="pw-field-error">{issue('maxIter')}</p>}
         </div>
         <div>
           <label className="pw-label" htmlFor="tol">
             Tolerance
           </label>
           <input id="tol" type="number" step="any" className="pw-input" min={0} value={tol} onChange={(e) => setTol(Number(e.target.value))} />
+          {issue('tol') && <p className="pw-field-error">{issue('tol')}</p>}
         </div>
       </div>
       <label className="flex items-start gap-2 text-sm">
@@ -136,7 +149,7 @@ export function FitForm({ datasetId, columns, defaults, maxComponentsAllowed }: 
         </button>
         <span className="text-xs text-ink-faint">Runs in the background; you can leave the page and come back.</span>
       </div>
-      {error && <ErrorNote message={error.message} issues={error.issues} />}
+      {error && <ErrorNote message={placed > 0 && placed === error.issues.length ? fixFieldsNotice(placed) : error.message} />}
     </form>
   );
 }

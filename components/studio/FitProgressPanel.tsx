@@ -3,7 +3,7 @@
 import Link from 'next/link';
 import { useState } from 'react';
 import { api } from './client-api';
-import { num } from './format';
+import { formatCount, formatFixed as num } from '@/lib/format';
 import { FitStatusPill } from './FitStatusPill';
 
 export interface ProgressFit {
@@ -59,7 +59,7 @@ export function FitProgressPanel({ fit, onChange }: { fit: ProgressFit; onChange
               Candidate <b>{p.candidate}</b> of {p.candidates}: {p.components} component{p.components === 1 ? '' : 's'}, {p.covariance} covariance · restart {p.restart} of {p.restarts} · iteration {p.iteration} · log-likelihood <span className="tabular-nums">{num(p.logLikelihood, 2)}</span>
             </>
           )}
-          {fit.status === 'succeeded' && `All ${p.candidates ?? ''} candidates fitted on ${p.rows ?? ''} rows.`}
+          {fit.status === 'succeeded' && `All ${p.candidates ?? ''} candidates fitted on ${formatCount(p.rows)} rows.`}
           {fit.status === 'cancelled' && (fit.error ?? 'Cancelled.')}
         </p>
         {live && (

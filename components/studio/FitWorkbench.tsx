@@ -1,5 +1,6 @@
 'use client';
 
+import Link from 'next/link';
 import { useRouter } from 'next/navigation';
 import { useCallback, useEffect, useState } from 'react';
 import { CriterionChart } from '@/components/charts/CriterionChart';
@@ -7,14 +8,22 @@ import type { FitView } from '@/lib/fitting/views';
 import { clusterColor } from '@/lib/fitting/palette';
 import { api, ApiError } from './client-api';
 import { FitProgressPanel, type ProgressFit } from './FitProgressPanel';
-import { num } from './format';
+import { formatCount, formatFixed } from '@/lib/format';
 import { ReviewPanel } from './ReviewPanel';
 import { ErrorNote, Section } from './StudioPage';
+
+/** A model already kept from this fit, and the candidate it came from. */
+export interface KeptModel {
+  id: number;
+  name: string;
+  components: number;
+  covariance: string;
+}
 
 type FitJson = Omit<FitView, 'startedAt' | 'finishedAt' | 'createdAt'> & { startedAt: string | null; finishedAt: string | null; createdAt: string };
 
 /** A fit from start to choice: live progress, then the ranked candidates, their review, and keeping one as a model. */
-export function FitWorkbench({ initial, datasetName }: { initial: FitJson; datasetName: string }) {
+export function FitWorkbench({ initial, datasetName, kept = [] }: { initial: FitJson; datasetName: string; kept?: KeptModel[] }) {
   const [fit, setFit] = useState<FitJson>(initial);
   const live = fit.status === 'queued' || fit.status === 'running';
   const refresh = useCallback(async () => {
@@ -41,13 +50,32 @@ export function FitWorkbench({ initial, datasetName }: { initial: FitJson; datas
     };
   }, [live, refresh]);
   const result = fit.result;
-  const [chosen, setChosen] = useState(0);
+  // Open on the candidate that was kept, if one was; else BIC's pick.
+  const keptIndex = result?.candidates.find((c) => kept.some((k) => k.components === c.components && k.covariance === c.covariance))?.index;
+  const [chosen, setChosen] = useState(keptIndex ?? 0);
 
   return (
     <>
       <Section title="Progress" id="progress">
         <FitProgressPanel fit={fit as unknown as ProgressFit} onChange={() => void refresh()} />
       </Section>
+      {fit.status === 'succeeded' && result && kept.length > 0 && (
+        <div role="status" className="rounded-lg border border-moss-300 bg-moss-50 px-5 py-4 text-moss-900" data-testid="kept-models">
+          <p className="font-bold">Already kept from this fit</p>
+          <ul className="mt-1 space-y-0.5 text-sm">
+            {kept.map((k) => (
+              <li key={k.id}>
+                <Link href={`/studio/models/${k.id}`} className="font-bold underline">
+                  {k.name}
+                </Link>{' '}
+                <span className="text-moss-700">
+                  ({k.components} component{k.components === 1 ? '' : 's'}, {k.covariance}): name its clusters or publish it from its page.
+                </span>
+              </li>
+            ))}
+          </ul>
+        </div>
+      )}
       {fit.status === 'succeeded' && result && (
         <>
           <Section title="Model choice" id="choice" lead="BIC and AIC for every candidate (lower is better). The ring marks the candidate you are looking at; BIC's pick is ranked first.">
@@ -56,7 +84,7 @@ export function FitWorkbench({ initial, datasetName }: { initial: FitJson; datas
             </div>
             <CandidateTable candidates={result.candidates} chosen={chosen} onChoose={setChosen} />
           </Section>
-          <ChosenCandidate key={chosen} fit={fit} index={chosen} datasetName={datasetName} />
+          <ChosenCandidate key={chosen} fit={fit} index={chosen} datasetName={datasetName} kept={kept.filter((k) => k.components === result.candidates[chosen]?.components && k.covariance === result.candidates[chosen]?.covariance)} />
         </>
       )}
     </>
@@ -99,11 +127,11 @@ function CandidateTable({ candidates, chosen, onChoose }: { candidates: Candidat
                 </td>
               ) : (
                 <>
-                  <td className="py-1.5 pr-3 text-right tabular-nums">{num(c.bic, 1)}</td>
-                  <td className="py-1.5 pr-3 text-right tabular-nums text-ink-soft">{best && c.bic !== null && best.bic !== null ? (c.rank === 1 ? 'best' : `+${num(c.bic - best.bic, 1)}`) : '—'}</td>
-                  <td className="py-1.5 pr-3 text-right tabular-nums">{num(c.aic, 1)}</td>
-                  <td className="py-1.5 pr-3 text-right tabular-nums">{num(c.logLikelihood, 1)}</td>
-                  <td className="py-1.5 pr-3 text-right tabular-nums">{c.parameters}</td>
+                  <td className="py-1.5 pr-3 text-right tabular-nums">{formatFixed(c.bic, 1)}</td>
+                  <td className="py-1.5 pr-3 text-right tabular-nums text-ink-soft">{best && c.bic !== null && best.bic !== null ? (c.rank === 1 ? 'best' : `+${formatFixed(c.bic - best.bic, 1)}`) : '—'}</td>
+                  <td className="py-1.5 pr-3 text-right tabular-nums">{formatFixed(c.aic, 1)}</td>
+                  <td className="py-1.5 pr-3 text-right tabular-nums">{formatFixed(c.logLikelihood, 1)}</td>
+                  <td className="py-1.5 pr-3 text-right tabular-nums">{formatCount(c.parameters)}</td>
                   <td className="py-1.5 tabular-nums">
                     {c.iterations}
                     {c.converged ? '' : <span className="ml-1 text-xs font-bold text-saffron-700">not converged</span>}
@@ -118,7 +146,7 @@ function CandidateTable({ candidates, chosen, onChoose }: { candidates: Candidat
   );
 }
 
-function ChosenCandidate({ fit, index, datasetName }: { fit: FitJson; index: number; datasetName: string }) {
+function ChosenCandidate({ fit, index, datasetName, kept }: { fit: FitJson; index: number; datasetName: string; kept: KeptModel[] }) {
   const router = useRouter();
   const result = fit.result!;
   const c = result.candidates[index];
@@ -129,13 +157,19 @@ function ChosenCandidate({ fit, index, datasetName }: { fit: FitJson; index: num
   const [busy, setBusy] = useState(false);
   const [error, setError] = useState<ApiError | null>(null);
   const isBest = c.rank === 1;
+  const nameIssue = error?.issues.find((i) => i.field === 'name')?.message;
+  const noteIssue = error?.issues.some((i) => i.field === 'selectionNote');
 
   return (
     <>
       <Section title={`${c.components} component${c.components === 1 ? '' : 's'}, ${c.covariance} covariance`} id="review" lead={isBest ? 'The candidate with the lowest BIC.' : `Ranked ${c.rank} by BIC.`}>
         <ReviewPanel baseUrl={`/api/fits/${fit.id}/review?candidate=${index}`} labels={labels} colors={colors} features={result.features} />
       </Section>
-      <Section title="Keep this model" id="keep" lead="Keeping it lets you name the clusters and, later, publish it as a calculator.">
+      <Section
+        title={kept.length ? 'Kept already' : 'Keep this model'}
+        id="keep"
+        lead={kept.length ? `You kept this candidate as “${kept.map((k) => k.name).join('”, “')}”. Keeping it again makes a separate copy with its own names.` : 'Keeping it lets you name the clusters and, later, publish it as a calculator.'}
+      >
         <form
           className="space-y-4"
           onSubmit={async (e) => {
@@ -155,19 +189,20 @@ function ChosenCandidate({ fit, index, datasetName }: { fit: FitJson; index: num
             <label className="pw-label" htmlFor="model-name">
               Model name
             </label>
-            <input id="model-name" className="pw-input" value={name} onChange={(e) => setName(e.target.value)} maxLength={200} />
+            <input id="model-name" className="pw-input" value={name} onChange={(e) => setName(e.target.value)} maxLength={200} aria-invalid={nameIssue ? true : undefined} />
+            {nameIssue && <p className="pw-field-error">{nameIssue}</p>}
           </div>
           <div>
             <label className="pw-label" htmlFor="selection-note">
               Why this candidate? {isBest ? <span className="font-normal text-ink-faint">(optional)</span> : <span className="font-normal text-clay-700">(needed: BIC prefers another)</span>}
             </label>
             <textarea id="selection-note" className="pw-input h-20" value={note} onChange={(e) => setNote(e.target.value)} maxLength={2000} placeholder={isBest ? '' : 'e.g. four groups match the ride groups the club runs, and BIC differs by only a few points.'} />
-            {error?.issues.find((i) => i.field === 'selectionNote') && <p className="pw-field-error">Say why you prefer it to BIC&apos;s choice.</p>}
+            {noteIssue && <p className="pw-field-error">Say why you prefer it to BIC&apos;s choice.</p>}
           </div>
           <button type="submit" className="pw-button" disabled={busy}>
-            {busy ? 'Saving…' : 'Keep and name clusters'}
+            {busy ? 'Saving…' : kept.length ? 'Keep another copy' : 'Keep and name clusters'}
           </button>
-          {error && <ErrorNote message={error.message} issues={error.issues} />}
+          {error && !nameIssue && <ErrorNote message={error.message} />}
         </form>
       </Section>
     </>

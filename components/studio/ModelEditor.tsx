@@ -2,10 +2,12 @@
 
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
+import { useForm } from 'react-hook-form';
 import type { ClusterLabel, FieldSetting } from '@/models/MixtureModel';
 import { CLUSTER_PALETTE } from '@/lib/fitting/palette';
+import { formatNumber, formatPercent } from '@/lib/format';
 import { api, ApiError } from './client-api';
-import { num } from './format';
+import { fixFieldsNotice, parseTypedNumber, placeServerIssues } from './form-issues';
 import { ErrorNote } from './StudioPage';
 
 interface Props {
@@ -20,44 +22,63 @@ interface Props {
 }
 
 type FieldDraft = Omit<FieldSetting, 'min' | 'max'> & { min: string; max: string };
+interface Values {
+  name: string;
+  clusters: ClusterLabel[];
+  fields: FieldDraft[];
+  caution: string;
+}
+
+const enterNumber = 'Enter a number, like 12 or 12.5.';
 
 /** Name the clusters, set up the calculator's fields, and write the caution visitors will see. */
 export function ModelEditor(props: Props) {
   const router = useRouter();
-  const [name, setName] = useState(props.name);
-  const [clusters, setClusters] = useState<ClusterLabel[]>(props.clusters);
-  const [fields, setFields] = useState<FieldDraft[]>(props.fields.map((f) => ({ ...f, min: String(f.min), max: String(f.max) })));
-  const [caution, setCaution] = useState(props.caution);
-  const [busy, setBusy] = useState(false);
   const [saved, setSaved] = useState(false);
-  const [error, setError] = useState<ApiError | null>(null);
-  const touch = () => setSaved(false);
-  const issue = (field: string) => error?.issues.find((i) => i.field === field)?.message;
+  const [notice, setNotice] = useState<string | null>(null);
+  const { register, handleSubmit, setError, setValue, watch, getValues, formState } = useForm<Values>({
+    defaultValues: { name: props.name, clusters: props.clusters, fields: props.fields.map((f) => ({ ...f, min: String(f.min), max: String(f.max) })), caution: props.caution },
+  });
+  const errors = formState.errors;
+  const clusters = watch('clusters');
+  const fields = watch('fields');
+  const busy = formState.isSubmitting;
+  const touch = { onChange: () => setSaved(false) };
 
-  async function save(e: React.FormEvent) {
-    e.preventDefault();
-    setBusy(true);
-    setError(null);
+  const save = handleSubmit(async (values) => {
+    setNotice(null);
     try {
-      await api(`/api/models/${props.modelId}`, { method: 'PATCH', json: { name, clusters, fields: fields.map((f) => ({ ...f, min: Number(f.min), max: Number(f.max) })), caution } });
+      await api(`/api/models/${props.modelId}`, {
+        method: 'PATCH',
+        json: { name: values.name, clusters: values.clusters, fields: values.fields.map((f) => ({ ...f, min: parseTypedNumber(f.min), max: parseTypedNumber(f.max) })), caution: values.caution },
+      });
       setSaved(true);
       router.refresh();
     } catch (err) {
-      setError(err instanceof ApiError ? err : new ApiError('Could not save.', 0));
-    } finally {
-      setBusy(false);
+      const failure = err instanceof ApiError ? err : new ApiError('Could not save. Check the connection and try again.', 0);
+      const rest = placeServerIssues(setError, failure.issues, (field, message) => {
+        const m = /^(clusters|fields)\.(\d+)\.(\w+)$/.exec(field);
+        if (m && m[1] === 'clusters' && ['label', 'description', 'color'].includes(m[3])) {
+          return { name: `clusters.${Number(m[2])}.${m[3] as 'label'}`, message: message };
+        }
+        if (m && m[1] === 'fields' && ['label', 'unit', 'min', 'max', 'help'].includes(m[3])) return { name: `fields.${Number(m[2])}.${m[3] as 'label'}` };
+        if (field === 'name' || field === 'caution') return { name: field };
+        return null;
+      });
+      setNotice(rest.length ? failure.message : failure.issues.length ? fixFieldsNotice(failure.issues.length) : failure.message);
     }
-  }
+  });
 
   return (
-    <form onSubmit={save} className="space-y-8" aria-label="Name the model">
+    <form onSubmit={save} onChange={() => notice && setNotice(null)} noValidate className="space-y-8" aria-label="Name the model">
       <div>
         <label className="pw-label" htmlFor="model-name">
           Model name
         </label>
-        <input id="model-name" className="pw-input max-w-xl" value={name} onChange={(e) => (touch(), setName(e.target.value))} maxLength={200} />
+        <input id="model-name" className="pw-input max-w-xl" maxLength={200} aria-invalid={errors.name ? true : undefined} {...register('name', { ...touch, validate: (v) => v.trim().length > 0 || 'Give the model a name.' })} />
+        {errors.name && <p className="pw-field-error">{errors.name.message}</p>}
       </div>
-      <fieldset className="space-y-4">
+      <fieldset className="min-w-0 space-y-4">
         <legend className="font-display text-lg font-semibold">Clusters</legend>
         {clusters.map((c, k) => (
           <div key={k} className="grid gap-4 rounded-lg bg-paper p-4 md:grid-cols-[1fr_1.6fr_auto]" data-testid={`cluster-${k}`}>
@@ -65,19 +86,32 @@ export function ModelEditor(props: Props) {
               <label className="pw-label" htmlFor={`label-${k}`}>
                 Label of cluster {k + 1}
               </label>
-              <input id={`label-${k}`} className="pw-input" value={c.label} maxLength={60} onChange={(e) => (touch(), setClusters((cs) => cs.map((x, j) => (j === k ? { ...x, label: e.target.value } : x))))} />
-              {issue(`clusters.${k}.label`) && <p className="pw-field-error">{issue(`clusters.${k}.label`)}</p>}
+              <input
+                id={`label-${k}`}
+                className="pw-input"
+                maxLength={60}
+                aria-invalid={errors.clusters?.[k]?.label ? true : undefined}
+                {...register(`clusters.${k}.label`, {
+                  ...touch,
+                  validate: (v) => {
+                    if (!v.trim()) return `Give cluster ${k + 1} a label.`;
+                    const same = getValues('clusters').findIndex((x, j) => j !== k && x.label.trim().toLowerCase() === v.trim().toLowerCase());
+                    return same < 0 || `Cluster ${same + 1} has this label too; visitors could not tell them apart.`;
+                  },
+                })}
+              />
+              {errors.clusters?.[k]?.label && <p className="pw-field-error">{errors.clusters[k]!.label!.message}</p>}
               <p className="mt-2 text-xs text-ink-faint">
-                {Math.round(props.weights[k] * 100)}% of rows ·{' '}
-                {fields.map((f, j) => `${f.label} ${num(props.means[k][j])}${f.unit ? ` ${f.unit}` : ''}`).join(' · ')}
+                {formatPercent(props.weights[k])} of rows ·{' '}
+                {fields.map((f, j) => `${f.label} ${formatNumber(props.means[k][j])}${f.unit ? ` ${f.unit}` : ''}`).join(' · ')}
               </p>
             </div>
             <div>
               <label className="pw-label" htmlFor={`description-${k}`}>
                 One-line description
               </label>
-              <input id={`description-${k}`} className="pw-input" value={c.description} maxLength={160} onChange={(e) => (touch(), setClusters((cs) => cs.map((x, j) => (j === k ? { ...x, description: e.target.value } : x))))} />
-              {issue(`clusters.${k}.description`) && <p className="pw-field-error">{issue(`clusters.${k}.description`)}</p>}
+              <input id={`description-${k}`} className="pw-input" maxLength={160} aria-invalid={errors.clusters?.[k]?.description ? true : undefined} {...register(`clusters.${k}.description`, touch)} />
+              {errors.clusters?.[k]?.description && <p className="pw-field-error">{errors.clusters[k]!.description!.message}</p>}
             </div>
             <div>
               <span className="pw-label">Colour</span>
@@ -90,7 +124,7 @@ export function ModelEditor(props: Props) {
                     aria-checked={c.color.toLowerCase() === p.color}
                     aria-label={p.name}
                     title={p.name}
-                    onClick={() => (touch(), setClusters((cs) => cs.map((x, j) => (j === k ? { ...x, color: p.color } : x))))}
+                    onClick={() => (setSaved(false), setValue(`clusters.${k}.color`, p.color, { shouldDirty: true }))}
                     className={`h-7 w-7 rounded-full ring-offset-2 ${c.color.toLowerCase() === p.color ? 'ring-2 ring-ink' : ''}`}
                     style={{ background: p.color }}
                   />
@@ -100,7 +134,7 @@ export function ModelEditor(props: Props) {
           </div>
         ))}
       </fieldset>
-      <fieldset>
+      <fieldset className="min-w-0">
         <legend className="font-display text-lg font-semibold">Calculator fields</legend>
         <p className="mb-3 text-sm text-ink-soft">What visitors see for each input and the range it accepts.</p>
         <div className="overflow-x-auto">
@@ -117,25 +151,43 @@ export function ModelEditor(props: Props) {
             </thead>
             <tbody>
               {fields.map((f, j) => {
-                const set = (patch: Partial<FieldDraft>) => (touch(), setFields((fs) => fs.map((x, i) => (i === j ? { ...x, ...patch } : x))));
+                const fe = errors.fields?.[j];
                 return (
                   <tr key={f.feature} className="align-top">
                     <td className="py-1.5 pr-3 pt-3.5 font-mono text-xs">{f.feature}</td>
                     <td className="py-1.5 pr-3">
-                      <input aria-label={`Label of ${f.feature}`} className="pw-input py-1.5 text-sm" value={f.label} onChange={(e) => set({ label: e.target.value })} maxLength={80} />
+                      <input aria-label={`Label of ${f.feature}`} className="pw-input py-1.5 text-sm" maxLength={80} aria-invalid={fe?.label ? true : undefined} {...register(`fields.${j}.label`, { ...touch, validate: (v) => v.trim().length > 0 || 'Give the field a label visitors will read.' })} />
+                      {fe?.label && <p className="pw-field-error">{fe.label.message}</p>}
                     </td>
                     <td className="w-20 py-1.5 pr-3">
-                      <input aria-label={`Unit of ${f.feature}`} className="pw-input py-1.5 text-sm" value={f.unit} onChange={(e) => set({ unit: e.target.value })} maxLength={24} />
+                      <input aria-label={`Unit of ${f.feature}`} className="pw-input py-1.5 text-sm" maxLength={24} {...register(`fields.${j}.unit`, touch)} />
+                      {fe?.unit && <p className="pw-field-error">{fe.unit.message}</p>}
                     </td>
                     <td className="w-24 py-1.5 pr-3">
-                      <input aria-label={`Lowest ${f.feature}`} className="pw-input py-1.5 text-sm" inputMode="decimal" value={f.min} onChange={(e) => set({ min: e.target.value })} />
+                      <input aria-label={`Lowest ${f.feature}`} className="pw-input py-1.5 text-sm" inputMode="decimal" aria-invalid={fe?.min ? true : undefined} {...register(`fields.${j}.min`, { ...touch, validate: (v) => parseTypedNumber(v) !== null || enterNumber })} />
+                      {fe?.min && <p className="pw-field-error">{fe.min.message}</p>}
                     </td>
                     <td className="w-24 py-1.5 pr-3">
-                      <input aria-label={`Highest ${f.feature}`} className="pw-input py-1.5 text-sm" inputMode="decimal" value={f.max} onChange={(e) => set({ max: e.target.value })} />
-                      {issue(`fields.${j}.max`) && <p className="pw-field-error">{issue(`fields.${j}.max`)}</p>}
+                      <input
+                        aria-label={`Highest ${f.feature}`}
+                        className="pw-input py-1.5 text-sm"
+                        inputMode="decimal"
+                        aria-invalid={fe?.max ? true : undefined}
+                        {...register(`fields.${j}.max`, {
+                          ...touch,
+                          validate: (v) => {
+                            const hi = parseTypedNumber(v);
+                            if (hi === null) return enterNumber;
+                            const lo = parseTypedNumber(getValues(`fields.${j}.min`));
+                            return lo === null || lo < hi || 'Make this higher than the lowest value.';
+                          },
+                        })}
+                      />
+                      {fe?.max && <p className="pw-field-error">{fe.max.message}</p>}
                     </td>
                     <td className="py-1.5">
-                      <input aria-label={`Help text of ${f.feature}`} className="pw-input py-1.5 text-sm" value={f.help} onChange={(e) => set({ help: e.target.value })} maxLength={300} placeholder="e.g. your average over the last month" />
+                      <input aria-label={`Help text of ${f.feature}`} className="pw-input py-1.5 text-sm" maxLength={300} placeholder="e.g. your average over the last month" {...register(`fields.${j}.help`, touch)} />
+                      {fe?.help && <p className="pw-field-error">{fe.help.message}</p>}
                     </td>
                   </tr>
                 );
@@ -148,7 +200,8 @@ export function ModelEditor(props: Props) {
         <label className="pw-label" htmlFor="caution">
           Caution shown to visitors
         </label>
-        <textarea id="caution" className="pw-input h-20 max-w-3xl" value={caution} onChange={(e) => (touch(), setCaution(e.target.value))} maxLength={600} />
+        <textarea id="caution" className="pw-input h-20 max-w-3xl" maxLength={600} aria-invalid={errors.caution ? true : undefined} {...register('caution', touch)} />
+        {errors.caution && <p className="pw-field-error">{errors.caution.message}</p>}
         <p className="mt-1 text-xs text-ink-faint">Memberships describe similarity to groups in your data, not a verdict. Say so in your own words.</p>
       </div>
       <div className="flex items-center gap-4">
@@ -161,7 +214,8 @@ export function ModelEditor(props: Props) {
           </span>
         )}
       </div>
-      {error && <ErrorNote message={error.message} issues={error.issues} />}
+      {notice && <ErrorNote message={notice} />}
+      {!notice && Object.keys(errors).length > 0 && <p className="text-sm font-bold text-clay-700" role="alert">Some values need a change; see the marked fields.</p>}
     </form>
   );
 }

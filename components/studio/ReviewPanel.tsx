@@ -8,7 +8,7 @@ import { TraceChart } from '@/components/charts/TraceChart';
 import type { Review } from '@/lib/fitting/review';
 import { ClusterStatsTable } from './ClusterStatsTable';
 import { fetcher } from './client-api';
-import { num, pct } from './format';
+import { formatCount, formatPercent, formatSmall } from '@/lib/format';
 
 export interface FeatureTitle {
   name: string;
@@ -30,9 +30,9 @@ export function ReviewPanel({ baseUrl, labels, colors, features }: { baseUrl: st
   return (
     <div className="space-y-8">
       <div className="grid gap-4 sm:grid-cols-3">
-        <Stat label="Rows scored" value={r.rows.toLocaleString('en')} hint={r.dropped ? `${r.dropped} left out for gaps` : 'none left out'} />
-        <Stat label="Average certainty" value={pct(r.meanMaxProbability)} hint="mean of each row's largest membership probability" testId="certainty" />
-        <Stat label="Ambiguity (entropy)" value={r.normalizedEntropy === null ? '—' : num(r.normalizedEntropy, 2)} hint="0 = every row clear-cut, 1 = no idea" />
+        <Stat label="Rows scored" value={formatCount(r.rows)} hint={r.dropped ? `${formatCount(r.dropped)} left out for gaps` : 'none left out'} />
+        <Stat label="Average certainty" value={formatPercent(r.meanMaxProbability)} hint="mean of each row's largest membership probability" testId="certainty" />
+        <Stat label="Ambiguity (entropy)" value={formatSmall(r.normalizedEntropy, 2)} hint="0 = every row clear-cut, 1 = no idea" />
       </div>
       <div>
         <div className="mb-3 flex flex-wrap items-end gap-4">
@@ -43,7 +43,7 @@ export function ReviewPanel({ baseUrl, labels, colors, features }: { baseUrl: st
         <div data-testid="cluster-scatter" className="min-h-[400px]">
           <ClusterScatter data={r} labels={labels} colors={colors} xTitle={axisTitle(features[r.axes.x])} yTitle={axisTitle(features[r.axes.y])} />
         </div>
-        <p className="mt-1 text-xs text-ink-faint">Solid rings: 1 sigma; dashed: 2 sigma. Faded points are rows the model is unsure about. {r.points.length < r.rows ? `Showing an even sample of ${r.points.length} of ${r.rows} rows.` : ''}</p>
+        <p className="mt-1 text-xs text-ink-faint">Solid rings: 1 sigma; dashed: 2 sigma. Faded points are rows the model is unsure about. {r.points.length < r.rows ? `Showing an even sample of ${formatCount(r.points.length)} of ${formatCount(r.rows)} rows.` : ''}</p>
       </div>
       <div className="grid gap-8 md:grid-cols-2">
         <div>

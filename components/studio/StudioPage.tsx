@@ -53,7 +53,9 @@ export function ErrorNote({ message, issues }: { message: string; issues?: { fie
         <ul className="mt-2 list-disc space-y-0.5 pl-5">
           {issues.slice(0, 8).map((i, n) => (
             <li key={n}>
-              <span className="font-bold">{i.field}:</span> {i.message}
+              {/* Only a field described in words ("row 12, column speed") is worth naming; a dotted path is for programs. */}
+              {/\s/.test(i.field) && <span className="font-bold">{i.field}: </span>}
+              {i.message}
             </li>
           ))}
         </ul>

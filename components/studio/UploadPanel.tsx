@@ -2,6 +2,7 @@
 
 import { useRouter } from 'next/navigation';
 import { useRef, useState } from 'react';
+import { formatBytes } from '@/lib/format';
 import { ApiError } from './client-api';
 import { ErrorNote } from './StudioPage';
 
@@ -66,7 +67,7 @@ export function UploadPanel({ maxBytesLabel, maxRowsLabel }: { maxBytesLabel: st
           className={`flex flex-col items-center justify-center rounded-card border-2 border-dashed px-6 py-10 text-center transition ${dragging ? 'border-moss-500 bg-moss-50' : 'border-ink/15 bg-paper'}`}
         >
           <p className="font-display text-lg font-semibold">{file ? file.name : 'Drop a CSV file here'}</p>
-          <p className="mt-1 text-sm text-ink-soft">{file ? `${(file.size / 1024).toFixed(1)} KB, ready to upload` : 'Comma, semicolon or tab separated, first row = column names.'}</p>
+          <p className="mt-1 text-sm text-ink-soft">{file ? `${formatBytes(file.size)}, ready to upload` : 'Comma, semicolon or tab separated, first row = column names.'}</p>
           <button type="button" className="pw-button-quiet mt-4" onClick={() => input.current?.click()}>
             {file ? 'Choose another file' : 'Choose a file'}
           </button>

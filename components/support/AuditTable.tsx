@@ -1,5 +1,6 @@
 import type { AuditRow } from '@/lib/support/detail';
-import { actionLabel, detailSummary, fmtDateTime } from './format';
+import { formatDateTime as fmtDateTime } from '@/lib/format';
+import { actionLabel, detailSummary } from './labels';
 
 /** Who did what, when, from where; shared by a calculator's trail and the audit log. */
 export function AuditTable({ events, showWorkspace = false, empty }: { events: (AuditRow & { workspaceName?: string | null })[]; showWorkspace?: boolean; empty: string }) {

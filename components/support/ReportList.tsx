@@ -4,7 +4,7 @@ import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import type { CalculatorDetail } from '@/lib/support/detail';
 import { postJson } from './api';
-import { fmtDateTime } from './format';
+import { formatDateTime as fmtDateTime } from '@/lib/format';
 
 /** Abuse reports with the reporter's own words; staff close each once dealt with. */
 export function ReportList({ reports, reasonLabels }: { reports: CalculatorDetail['reports']; reasonLabels: Record<string, string> }) {

@@ -25,7 +25,9 @@ export const workspaceName = storedText('The workspace name').trim().min(2, 'Giv
 export const token = storedText('The link').trim().min(16, 'This link is incomplete; open it again from the e-mail.').max(200, 'This link is not valid.');
 export const roleSchema = z.enum(['owner', 'member'], { message: 'Choose owner or member.' });
 
-export const signUpSchema = z.object({ name: personName, email, password, workspaceName });
+/** A paid plan picked on the plans page before signing up; it is offered on the billing page after sign-in. */
+export const wantedPlan = z.enum(['bench', 'lab'], { message: 'Choose Bench or Lab, or leave the plan out for the free Sketch plan.' });
+export const signUpSchema = z.object({ name: personName, email, password, workspaceName, plan: wantedPlan.optional() });
 export type SignUpInput = z.infer<typeof signUpSchema>;
 
 export const signInSchema = z.object({ email, password: z.string().min(1, 'Enter your password.').max(200) });

@@ -65,7 +65,7 @@ export async function signUp(input: SignUpInput, request?: Request): Promise<voi
   }
   const { user, workspace } = created;
   await recordAudit({ action: 'account.signed_up', actor: { id: user.id, email: user.email }, workspaceId: workspace.id, targetType: 'user', targetId: user.id, request });
-  afterResponse('verification mail', () => sendVerification(user));
+  afterResponse('verification mail', () => sendVerification(user, input.plan));
 }
 
 /** The address has an account: mail its holder (a few times per window at most), never the visitor. */
@@ -78,11 +78,12 @@ async function tellHolderOfSignUpAttempt(holder: User, request?: Request): Promi
 }
 
 /** Issue a fresh verification link (older unused ones stop working) and mail it. */
-export async function sendVerification(user: User): Promise<void> {
+export async function sendVerification(user: User, plan?: string): Promise<void> {
   const { token, hash } = newLinkToken();
   await AuthToken.destroy({ where: { userId: user.id, purpose: 'verify-email', usedAt: null } });
   await AuthToken.create({ userId: user.id, purpose: 'verify-email', tokenHash: hash, expiresAt: new Date(Date.now() + VERIFY_TTL_MS) });
-  await enqueueMail(verificationMail(user, appLink('/verify', { token })));
+  // A plan picked before signing up rides along in the link, so sign-in can lead to it.
+  await enqueueMail(verificationMail(user, appLink('/verify', plan ? { token, plan } : { token })));
 }
 
 /** Resend, answering the same whether or not the address has an unverified account. */

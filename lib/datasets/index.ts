@@ -68,11 +68,12 @@ export async function findDataset(workspaceId: number, id: number): Promise<Data
 export async function listDatasets(workspaceId: number) {
   const rows = await Dataset.findAll({
     where: { workspaceId },
-    attributes: ['id', 'name', 'originalFilename', 'rowCount', 'columns', 'createdAt', 'updatedAt'],
+    attributes: ['id', 'number', 'name', 'originalFilename', 'rowCount', 'columns', 'createdAt', 'updatedAt'],
     order: [['createdAt', 'DESC'], ['id', 'DESC']],
   });
   return rows.map((d) => ({
     id: d.id,
+    number: d.number,
     name: d.name,
     originalFilename: d.originalFilename,
     rowCount: d.rowCount,
@@ -85,6 +86,7 @@ export async function listDatasets(workspaceId: number) {
 export function datasetSummary(d: Dataset, previewRows = 20) {
   return {
     id: d.id,
+    number: d.number,
     name: d.name,
     originalFilename: d.originalFilename,
     rowCount: d.rowCount,
@@ -99,15 +101,15 @@ export function datasetSummary(d: Dataset, previewRows = 20) {
 const featureSetting = z
   .object({
     name: storedText('The column name').min(1),
-    displayName: storedText('The display name').trim().min(1, 'Give the feature a display name.').max(80),
-    unit: storedText('The unit').trim().max(24),
-    inputMin: z.number().finite(),
-    inputMax: z.number().finite(),
+    displayName: storedText('The display name').trim().min(1, 'Give the feature a display name.').max(80, 'Keep the name under 80 characters.'),
+    unit: storedText('The unit').trim().max(24, 'Keep the unit under 24 characters.'),
+    inputMin: z.number({ error: 'Enter a number, like 12 or 12.5.' }).finite('Enter a number, like 12 or 12.5.'),
+    inputMax: z.number({ error: 'Enter a number, like 12 or 12.5.' }).finite('Enter a number, like 12 or 12.5.'),
   })
   .refine((f) => f.inputMin < f.inputMax, { message: 'The lowest accepted value must be below the highest.', path: ['inputMax'] });
 
 export const datasetUpdateSchema = z.object({
-  name: storedText('The name').trim().min(1, 'Give the dataset a name.').max(200).optional(),
+  name: storedText('The name').trim().min(1, 'Give the dataset a name.').max(200, 'Keep the name under 200 characters.').optional(),
   features: z.array(featureSetting).max(200).optional(),
 });
 export type DatasetUpdate = z.infer<typeof datasetUpdateSchema>;

@@ -2,13 +2,15 @@ import { z } from 'zod';
 import { storedText } from '@/lib/http/text';
 
 /**
- * Allowed host origins: exact scheme + host + port entries. Everything else a person
- * might paste (a path, a query, a trailing slash, upper case) is either normalised away
- * or refused with a reason, so the CSP built from the list is exactly what was meant.
+ * Allowed host origins: exact scheme + host + port entries. What a person pastes is
+ * normalised (a page address keeps only its origin; a trailing slash, upper case and the
+ * default port go) or refused with a reason, so the CSP built from the list is exactly
+ * what was meant.
  */
 export const MAX_ALLOWED_ORIGINS = 20;
 
-export type OriginCheck = { ok: true; origin: string } | { ok: false; reason: string };
+/** `trimmed`: the entry was a page address; only its origin (scheme, host, port) is kept. */
+export type OriginCheck = { ok: true; origin: string; trimmed?: true } | { ok: false; reason: string };
 
 export function checkOrigin(input: string): OriginCheck {
   const text = input.trim();
@@ -23,12 +25,12 @@ export function checkOrigin(input: string): OriginCheck {
     return { ok: false, reason: 'is not a valid address' };
   }
   if (url.username || url.password) return { ok: false, reason: 'must not contain a user name or password' };
-  if ((url.pathname && url.pathname !== '/') || url.search || url.hash || /[?#]/.test(text.replace(/^https?:\/\/[^/]*/i, ''))) {
-    return { ok: false, reason: 'must be only scheme, host and port (no path, query or fragment)' };
-  }
   if (!url.hostname) return { ok: false, reason: 'has no host' };
+  // People paste the address of the page the calculator sits on; the browser checks only
+  // its origin, so keep that and say the rest was left out.
+  const trimmed = (url.pathname && url.pathname !== '/') || url.search || url.hash || /[?#]/.test(text.replace(/^https?:\/\/[^/]*/i, ''));
   // URL drops the default port and lower-cases the host: the browser's own origin form.
-  return { ok: true, origin: url.origin };
+  return trimmed ? { ok: true, origin: url.origin, trimmed: true } : { ok: true, origin: url.origin };
 }
 
 export function normalizeOrigin(input: string): string | null {

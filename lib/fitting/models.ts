@@ -21,8 +21,8 @@ export const createModelSchema = z.object({
   fitId: z.number().int().positive(),
   /** Position in the fit's ranked candidate list (0 = the BIC winner). */
   candidate: z.number().int().min(0),
-  name: storedText('The name').trim().min(1, 'Give the model a name.').max(200),
-  selectionNote: storedText('The note').trim().max(2000).default(''),
+  name: storedText('The name').trim().min(1, 'Give the model a name.').max(200, 'Keep the name under 200 characters.'),
+  selectionNote: storedText('The note').trim().max(2000, 'Keep the note under 2,000 characters.').default(''),
 });
 
 export async function createModelFromFit(workspaceId: number, userId: number, input: unknown): Promise<MixtureModel> {
@@ -82,20 +82,20 @@ const clusterSchema = z.object({
 const fieldSchema = z
   .object({
     feature: storedText('The feature').min(1),
-    label: storedText('The label').trim().min(1, 'Give the field a label.').max(80),
-    unit: storedText('The unit').trim().max(24),
-    min: z.number().finite(),
-    max: z.number().finite(),
-    help: storedText('The help text').trim().max(300),
+    label: storedText('The label').trim().min(1, 'Give the field a label visitors will read.').max(80, 'Keep the label under 80 characters.'),
+    unit: storedText('The unit').trim().max(24, 'Keep the unit under 24 characters.'),
+    min: z.number({ error: 'Enter a number, like 12 or 12.5.' }).finite('Enter a number, like 12 or 12.5.'),
+    max: z.number({ error: 'Enter a number, like 12 or 12.5.' }).finite('Enter a number, like 12 or 12.5.'),
+    help: storedText('The help text').trim().max(300, 'Keep the help text under 300 characters.'),
   })
   .refine((f) => f.min < f.max, { message: 'The lowest accepted value must be below the highest.', path: ['max'] });
 
 export const updateModelSchema = z.object({
-  name: storedText('The name').trim().min(1, 'Give the model a name.').max(200).optional(),
+  name: storedText('The name').trim().min(1, 'Give the model a name.').max(200, 'Keep the name under 200 characters.').optional(),
   clusters: z.array(clusterSchema).optional(),
   fields: z.array(fieldSchema).optional(),
-  caution: storedText('The caution').trim().max(600).optional(),
-  selectionNote: storedText('The note').trim().max(2000).optional(),
+  caution: storedText('The caution').trim().max(600, 'Keep the caution under 600 characters.').optional(),
+  selectionNote: storedText('The note').trim().max(2000, 'Keep the note under 2,000 characters.').optional(),
 });
 
 export async function findModel(workspaceId: number, id: number): Promise<MixtureModel> {
@@ -115,7 +115,7 @@ export async function updateModel(workspaceId: number, id: number, input: unknow
     const seen = new Map<string, number>();
     body.clusters.forEach((c, i) => {
       const key = c.label.toLowerCase();
-      if (seen.has(key)) throw new AppError('invalid_input', `Clusters ${seen.get(key)! + 1} and ${i + 1} are both labelled "${c.label}"; visitors could not tell them apart.`, { issues: [{ field: `clusters.${i}.label`, message: 'used twice' }] });
+      if (seen.has(key)) throw new AppError('invalid_input', `Clusters ${seen.get(key)! + 1} and ${i + 1} are both labelled "${c.label}"; visitors could not tell them apart.`, { issues: [{ field: `clusters.${i}.label`, message: `Cluster ${seen.get(key)! + 1} has this label too; visitors could not tell them apart.` }] });
       seen.set(key, i);
     });
     model.clusters = body.clusters;

@@ -26,14 +26,14 @@ export const fitParamsSchema = z
   .object({
     datasetId: z.number().int().positive(),
     features: z.array(storedText('A feature name').min(1)).min(1, 'Choose at least one feature.').max(30, 'Choose at most 30 features.'),
-    minComponents: z.number().int().min(1).max(MAX_COMPONENTS).default(FIT_DEFAULTS.minComponents),
-    maxComponents: z.number().int().min(1).max(MAX_COMPONENTS, `At most ${MAX_COMPONENTS} components.`).default(FIT_DEFAULTS.maxComponents),
+    minComponents: z.number({ error: 'Enter a whole number of components.' }).int('Enter a whole number of components.').min(1, 'Try at least 1 component.').max(MAX_COMPONENTS, `At most ${MAX_COMPONENTS} components.`).default(FIT_DEFAULTS.minComponents),
+    maxComponents: z.number({ error: 'Enter a whole number of components.' }).int('Enter a whole number of components.').min(1, 'Try at least 1 component.').max(MAX_COMPONENTS, `At most ${MAX_COMPONENTS} components.`).default(FIT_DEFAULTS.maxComponents),
     covariances: z.array(z.enum(STRUCTURES)).min(1, 'Choose at least one covariance structure.').default(FIT_DEFAULTS.covariances),
-    restarts: z.number().int().min(1).max(MAX_RESTARTS).default(FIT_DEFAULTS.restarts),
-    seed: z.number().int().min(0).max(2 ** 31 - 1).default(FIT_DEFAULTS.seed),
+    restarts: z.number({ error: 'Enter a whole number of restarts.' }).int('Enter a whole number of restarts.').min(1, 'Use at least 1 restart.').max(MAX_RESTARTS, `Use at most ${MAX_RESTARTS} restarts.`).default(FIT_DEFAULTS.restarts),
+    seed: z.number({ error: 'Enter a whole number as the seed.' }).int('Enter a whole number as the seed.').min(0, 'The seed cannot be negative.').max(2 ** 31 - 1, 'Use a seed below 2,147,483,648.').default(FIT_DEFAULTS.seed),
     standardize: z.boolean().default(FIT_DEFAULTS.standardize),
-    maxIter: z.number().int().min(5).max(2000).default(FIT_DEFAULTS.maxIter),
-    tol: z.number().positive().max(0.1).default(FIT_DEFAULTS.tol),
+    maxIter: z.number({ error: 'Enter a whole number of iterations.' }).int('Enter a whole number of iterations.').min(5, 'Allow at least 5 iterations.').max(2000, 'Allow at most 2,000 iterations.').default(FIT_DEFAULTS.maxIter),
+    tol: z.number({ error: 'Enter the tolerance as a number, like 0.0001.' }).positive('The tolerance must be above 0.').max(0.1, 'Keep the tolerance at 0.1 or below.').default(FIT_DEFAULTS.tol),
     regCovar: z.number().min(0).max(1).default(FIT_DEFAULTS.regCovar),
   })
   .refine((p) => p.minComponents <= p.maxComponents, { message: 'The smallest component count must not exceed the largest.', path: ['maxComponents'] })

@@ -27,6 +27,7 @@ export function fitView(fit: Fit, queuePosition: number | null = null) {
   const result = fitResult(fit);
   return {
     id: fit.id,
+    number: fit.number,
     datasetId: fit.datasetId,
     status: fit.status,
     params: fit.params,

@@ -5,16 +5,18 @@ import { EmailRequestForm } from '@/components/account/EmailRequestForm';
 import { VerifyEmail } from '@/components/account/VerifyEmail';
 import { pageActor } from '@/lib/auth/page';
 import { devMailAllowed } from '@/lib/mail/dev';
+import { wantedPlan } from '@/lib/accounts/schemas';
 
 export const metadata: Metadata = { title: 'Confirm your e-mail' };
 export const dynamic = 'force-dynamic';
 
 export default async function VerifyPage({ searchParams }: { searchParams: Promise<Record<string, string | undefined>> }) {
-  const { token, email, sent } = await searchParams;
+  const { token, email, sent, plan } = await searchParams;
   if (token) {
+    const asked = wantedPlan.safeParse(plan);
     return (
       <AuthPanel title="Confirming your e-mail">
-        <VerifyEmail token={token} />
+        <VerifyEmail token={token} plan={asked.success ? asked.data : undefined} />
       </AuthPanel>
     );
   }

@@ -3,6 +3,7 @@ import { pageWorkspace } from '@/lib/auth/page';
 import { billingSummary, listInvoices } from '@/lib/billing/summary';
 import { AppError } from '@/lib/errors';
 import { PLANS } from '@/lib/plans';
+import { wantedPlan } from '@/lib/accounts/schemas';
 import { Section, StudioPage } from '@/components/studio/StudioPage';
 import { InvoiceTable } from '@/components/billing/InvoiceTable';
 import { OwnerOnly } from '@/components/billing/OwnerOnly';
@@ -94,6 +95,7 @@ export default async function BillingPage({ searchParams }: { searchParams: Prom
           paid={sub.paid}
           cancelAtPeriodEnd={sub.cancelAtPeriodEnd}
           periodEnd={sub.currentPeriodEnd}
+          suggestedPlan={wantedPlan.safeParse(params.plan).data}
         />
       </Section>
 

@@ -3,7 +3,7 @@ import type { Metadata } from 'next';
 import { pageWorkspace } from '@/lib/auth/page';
 import { workspacePlan } from '@/lib/billing/limits';
 import { listDatasets } from '@/lib/datasets';
-import { count } from '@/components/studio/format';
+import { formatBytes, formatCount as count, formatDate } from '@/lib/format';
 import { Section, StudioPage } from '@/components/studio/StudioPage';
 import { UploadPanel } from '@/components/studio/UploadPanel';
 
@@ -16,15 +16,17 @@ export default async function DatasetsPage() {
   return (
     <StudioPage title="Datasets" lead="Tables of measurements, one row per person or thing, one column per feature. Upload one, check its columns, then fit mixtures to it.">
       <Section title="Add a table" id="upload">
-        <UploadPanel maxBytesLabel={`${Math.round(plan.limits.uploadBytes / (1024 * 1024))} MB`} maxRowsLabel={count(plan.limits.datasetRows)} />
+        <UploadPanel maxBytesLabel={formatBytes(plan.limits.uploadBytes)} maxRowsLabel={count(plan.limits.datasetRows)} />
       </Section>
       <Section title="Your tables" id="list" lead={datasets.length ? `${datasets.length} in ${actor.workspace.name}` : undefined}>
         {datasets.length === 0 ? (
           <p className="text-ink-soft">No tables yet. Upload a CSV above; the sample ride logs are in <a className="font-bold text-moss-700 underline" href="/samples/riverside-rides.csv">riverside-rides.csv</a>.</p>
         ) : (
+          <div className="overflow-x-auto">
           <table className="w-full text-left text-sm">
             <thead className="border-b border-ink/10 text-ink-soft">
               <tr>
+                <th className="py-2 pr-4 text-right font-bold">No.</th>
                 <th className="py-2 pr-4 font-bold">Name</th>
                 <th className="py-2 pr-4 font-bold">File</th>
                 <th className="py-2 pr-4 text-right font-bold">Rows</th>
@@ -35,6 +37,7 @@ export default async function DatasetsPage() {
             <tbody>
               {datasets.map((d) => (
                 <tr key={d.id} className="border-b border-ink/5">
+                  <td className="py-2 pr-4 text-right tabular-nums text-ink-faint">{d.number}</td>
                   <td className="py-2 pr-4">
                     <Link className="font-bold text-moss-700 hover:underline" href={`/studio/datasets/${d.id}`}>
                       {d.name}
@@ -45,11 +48,12 @@ export default async function DatasetsPage() {
                   <td className="py-2 pr-4 text-right tabular-nums">
                     {d.numericColumns} of {d.columns}
                   </td>
-                  <td className="py-2 text-ink-soft">{new Date(d.createdAt).toLocaleDateString('en-GB', { day: 'numeric', month: 'short', year: 'numeric' })}</td>
+                  <td className="py-2 text-ink-soft">{formatDate(d.createdAt)}</td>
                 </tr>
               ))}
             </tbody>
           </table>
+          </div>
         )}
       </Section>
     </StudioPage>

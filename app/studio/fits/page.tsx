@@ -2,6 +2,7 @@ import Link from 'next/link';
 import type { Metadata } from 'next';
 import { pageWorkspace } from '@/lib/auth/page';
 import { Dataset, Fit } from '@/models';
+import { formatDateTime } from '@/lib/format';
 import { FitStatusPill } from '@/components/studio/FitStatusPill';
 import { Section, StudioPage } from '@/components/studio/StudioPage';
 
@@ -10,7 +11,7 @@ export const dynamic = 'force-dynamic';
 
 export default async function FitsPage() {
   const actor = await pageWorkspace('member', '/studio/fits');
-  const fits = await Fit.findAll({ where: { workspaceId: actor.workspace.id }, order: [['id', 'DESC']], limit: 200, attributes: ['id', 'datasetId', 'status', 'params', 'progress', 'error', 'createdAt'] });
+  const fits = await Fit.findAll({ where: { workspaceId: actor.workspace.id }, order: [['id', 'DESC']], limit: 200, attributes: ['id', 'number', 'datasetId', 'status', 'params', 'progress', 'error', 'createdAt'] });
   const datasets = new Map((await Dataset.findAll({ where: { workspaceId: actor.workspace.id }, attributes: ['id', 'name'] })).map((d) => [d.id, d.name]));
   return (
     <StudioPage title="Fits" lead="Every mixture fit of this workspace, newest first. Start a new one from a dataset.">
@@ -20,6 +21,7 @@ export default async function FitsPage() {
             No fits yet. Open a <Link className="font-bold text-moss-700 underline" href="/studio/datasets">dataset</Link> and choose “Fit mixtures”.
           </p>
         ) : (
+          <div className="overflow-x-auto">
           <table className="w-full text-left text-sm">
             <thead className="border-b border-ink/10 text-ink-soft">
               <tr>
@@ -38,7 +40,7 @@ export default async function FitsPage() {
                   <tr key={f.id} className="border-b border-ink/5 align-top">
                     <td className="py-2 pr-4">
                       <Link href={`/studio/fits/${f.id}`} className="font-bold text-moss-700 hover:underline">
-                        #{f.id}
+                        Fit {f.number}
                       </Link>
                     </td>
                     <td className="py-2 pr-4">{datasets.get(f.datasetId) ?? <span className="text-ink-faint">deleted</span>}</td>
@@ -47,7 +49,7 @@ export default async function FitsPage() {
                       {f.status === 'succeeded' && progress?.best ? <span className="block text-xs">BIC picks {progress.best.components} × {progress.best.covariance}</span> : null}
                       {f.status === 'failed' && f.error ? <span className="block text-xs text-clay-700">{f.error}</span> : null}
                     </td>
-                    <td className="py-2 pr-4 text-ink-faint">{new Date(f.createdAt).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' })}</td>
+                    <td className="py-2 pr-4 text-ink-faint">{formatDateTime(f.createdAt)}</td>
                     <td className="py-2">
                       <FitStatusPill status={f.status} />
                     </td>
@@ -56,6 +58,7 @@ export default async function FitsPage() {
               })}
             </tbody>
           </table>
+          </div>
         )}
       </Section>
     </StudioPage>

@@ -1,7 +1,8 @@
 import type { Metadata } from 'next';
 import Link from 'next/link';
 import { AuditTable } from '@/components/support/AuditTable';
-import { actionLabel, fmtCount } from '@/components/support/format';
+import { formatCount as fmtCount } from '@/lib/format';
+import { actionLabel } from '@/components/support/labels';
 import { StaffOnly } from '@/components/support/StaffOnly';
 import { auditQuerySchema, queryObject, searchAudit, type AuditQuery } from '@/lib/support';
 import { zodIssues } from '@/lib/http/handler';

@@ -16,13 +16,18 @@ describe('origin entries', () => {
   });
 
   it.each([
+    ['https://club.example/rides/join?x=1', 'https://club.example'],
+    ['https://club.example?x=1', 'https://club.example'],
+    ['https://Club.Example:8443/page#top', 'https://club.example:8443'],
+  ])('keeps only the origin of the page address %s', (input, origin) => {
+    expect(checkOrigin(input)).toEqual({ ok: true, origin, trimmed: true });
+  });
+
+  it.each([
     ['', /empty/],
     ['club.example', /start with https/],
     ['ftp://club.example', /start with https/],
     ['https://*.club.example', /wildcard/],
-    ['https://club.example/rides', /no path/],
-    ['https://club.example?x=1', /no path/],
-    ['https://club.example#top', /no path/],
     ['https://user:pw@club.example', /user name/],
     ["https://club.example 'unsafe-inline'", /spaces, quotes/],
     ['https://club.example;script-src', /semicolons/],

@@ -57,6 +57,17 @@ describe('publishing a calculator', () => {
     expect(tokens.size).toBe(3);
   });
 
+  it('asks for the website at publish and keeps only the origin of a pasted page address', async () => {
+    const res = await publish({ mixtureModelId: ws.model.id, allowedOrigins: ['https://Club.Example/rides/join?x=1'] });
+    expect(res.status).toBe(201);
+    expect((await res.json()).embed.allowedOrigins).toEqual(['https://club.example']);
+    const bad = await publish({ mixtureModelId: ws.model.id, allowedOrigins: ['club.example/rides'] });
+    expect(bad.status).toBe(422);
+    const issue = (await bad.json()).error.issues[0];
+    expect(issue.field).toBe('allowedOrigins.0');
+    expect(issue.message).toMatch(/must start with https:\/\//);
+  });
+
   it('refuses a model that is not ready, naming the setting to fix', async () => {
     const broken = await createModel(ws.workspace.id, ws.owner.id, 3, 'Unnamed');
     await broken.update({ clusters: broken.clusters.map((c, i) => (i === 1 ? { ...c, label: '', color: 'green' } : c)) });
@@ -148,13 +159,14 @@ describe('allowed origins and the frame policy', () => {
   it('validates and normalises origins, with a message per bad entry', async () => {
     const { embed } = await (await publish({ mixtureModelId: ws.model.id })).json();
     const patch = async (json: unknown) => settingsRoute(await makeRequest(`/api/embeds/${embed.id}`, { method: 'PATCH', userId: ws.member.id, json }), idCtx(embed.id));
-    const bad = await patch({ allowedOrigins: ['https://ok.example', 'ftp://files.example', 'https://club.example/page', '*.example.com', 'not a url'] });
+    const bad = await patch({ allowedOrigins: ['https://ok.example', 'ftp://files.example', 'https://user:pw@club.example/page', '*.example.com', 'not a url'] });
     expect(bad.status).toBe(422);
     const issues = (await bad.json()).error.issues;
     expect(issues.map((i: { field: string }) => i.field)).toEqual(['allowedOrigins.1', 'allowedOrigins.2', 'allowedOrigins.3', 'allowedOrigins.4']);
-    expect(issues[1].message).toMatch(/no path/);
+    expect(issues[1].message).toMatch(/user name or password/);
 
-    const good = await patch({ allowedOrigins: ['HTTPS://Club.Example:443/', 'http://localhost:4000', 'https://club.example'], theme: 'dark', accentColor: '#e0a526', typicalityThreshold: 5 });
+    // A pasted page address keeps its origin only.
+    const good = await patch({ allowedOrigins: ['HTTPS://Club.Example:443/', 'http://localhost:4000', 'https://club.example/rides/join?x=1'], theme: 'dark', accentColor: '#e0a526', typicalityThreshold: 5 });
     expect(good.status).toBe(200);
     const saved = (await good.json()).embed;
     expect(saved.allowedOrigins).toEqual(['https://club.example', 'http://localhost:4000']);

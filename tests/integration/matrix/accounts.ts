@@ -13,6 +13,23 @@ const everyone = (status: number) => ({ visitor: status, member: status, owner: 
 export const rows: MatrixRow[] = [
   { file: 'app/api/account/route.ts', method: 'GET', url: () => '/api/account', expect: { ...everyone(200), visitor: 401 } },
   { file: 'app/api/account/sessions/route.ts', method: 'DELETE', url: () => '/api/account/sessions', expect: { ...everyone(200), visitor: 401 }, note: 'signs the caller out everywhere; the next request signs in again' },
+  { file: 'app/api/account/route.ts', method: 'PATCH', url: () => '/api/account', body: () => ({ name: '   ' }), expect: { ...everyone(422), visitor: 401 }, note: 'own account only; an empty name shows the session is checked first' },
+  {
+    file: 'app/api/account/route.ts',
+    method: 'DELETE',
+    url: () => '/api/account',
+    body: () => ({ confirmEmail: 'not-this-account@matrix.test', password: 'matrix-wrong-password' }),
+    expect: { ...everyone(422), visitor: 401 },
+    note: 'own account only; the typed address must match, so nothing is deleted here',
+  },
+  {
+    file: 'app/api/account/password/route.ts',
+    method: 'PUT',
+    url: () => '/api/account/password',
+    body: () => ({ currentPassword: 'matrix-wrong-password', newPassword: 'matrix-password-3' }),
+    expect: { ...everyone(422), visitor: 401 },
+    note: 'own account only; the current password decides',
+  },
   {
     file: 'app/api/account/signup/route.ts',
     method: 'POST',

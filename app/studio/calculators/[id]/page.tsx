@@ -12,6 +12,7 @@ import { StatusPill } from '@/components/calculators/StatusPill';
 import { TokenActions } from '@/components/calculators/TokenActions';
 import { VersionList } from '@/components/calculators/VersionList';
 import { ErrorNote, Section, StudioPage } from '@/components/studio/StudioPage';
+import { formatCount } from '@/lib/format';
 
 export const metadata: Metadata = { title: 'Calculator' };
 export const dynamic = 'force-dynamic';
@@ -52,7 +53,7 @@ export default async function CalculatorPage({ params }: { params: Promise<{ id:
       lead={
         <span className="inline-flex flex-wrap items-center gap-3">
           <StatusPill status={embed.status === 'active' && served?.problem ? 'damaged' : embed.status} />
-          <span>{answersThisMonth.toLocaleString('en')} answers this month</span>
+          <span>{formatCount(answersThisMonth)} answers this month</span>
           {embed.status === 'disabled' && embed.disabledReason && <span>Support&rsquo;s reason: {embed.disabledReason}</span>}
           {embed.status === 'disabled' && (
             <span>
@@ -66,19 +67,28 @@ export default async function CalculatorPage({ params }: { params: Promise<{ id:
         </span>
       }
     >
+      {embed.allowedOrigins.length === 0 && !retired && (
+        <div role="alert" className="mb-8 rounded-lg border-2 border-clay-500 bg-clay-100 px-5 py-4 text-clay-700" data-testid="no-websites-warning">
+          <p className="text-lg font-bold">No website may show this calculator yet</p>
+          <p className="mt-1">
+            Browsers refuse to show it on any site until you list the website it goes on; for now it appears only in the preview on this page.{' '}
+            <a href="#settings" className="font-bold underline">Add your website under Settings</a> (paste the page&rsquo;s address; the site part is kept).
+          </p>
+        </div>
+      )}
       {served?.problem && (
         <div className="mb-8">
           <ErrorNote message={`Version ${served.number}, which this calculator serves, is damaged: ${served.problem}. Visitors see “not available” until you serve another version or publish a new one (Versions, below).`} />
         </div>
       )}
-      <div className="grid gap-8 lg:grid-cols-[minmax(0,1fr)_minmax(0,26rem)]">
+      <div className="grid grid-cols-1 gap-8 lg:grid-cols-[minmax(0,1fr)_minmax(0,26rem)]">
         <div className="space-y-8">
-          <Section title="Put it on your website" id="snippet" lead="Paste one of these where the calculator should appear. The page must be on one of the allowed websites below.">
+          <Section title="Put it on your website" id="snippet" lead={embed.allowedOrigins.length ? `Paste one of these where the calculator should appear. It shows on ${embed.allowedOrigins.join(', ')} and nowhere else.` : 'Paste one of these where the calculator should appear, once your website is listed under Settings: until then, no website can show it.'}>
             <div className="space-y-4">
               <SnippetBox label="With the loader (sizes itself)" code={loaderSnippet} />
               <SnippetBox label="Plain iframe" code={iframeSnippet} />
               <p className="text-sm text-ink-soft">
-                Address: <a className="font-mono text-moss-700 underline" href={`/embed/${embed.token}`} target="_blank" rel="noreferrer">{`${origin}/embed/${embed.token}`}</a>
+                Address: <a className="break-all font-mono text-moss-700 underline" href={`/embed/${embed.token}`} target="_blank" rel="noreferrer">{`${origin}/embed/${embed.token}`}</a>
               </p>
             </div>
           </Section>

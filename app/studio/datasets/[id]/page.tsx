@@ -12,7 +12,7 @@ import { DeleteDatasetButton } from '@/components/studio/DeleteDatasetButton';
 import { FeatureSettingsForm } from '@/components/studio/FeatureSettingsForm';
 import { FitForm } from '@/components/studio/FitForm';
 import { FitStatusPill } from '@/components/studio/FitStatusPill';
-import { count } from '@/components/studio/format';
+import { formatCount as count, formatDateTime } from '@/lib/format';
 import { Section, StudioPage } from '@/components/studio/StudioPage';
 
 export const metadata: Metadata = { title: 'Dataset' };
@@ -27,7 +27,7 @@ export default async function DatasetPage({ params }: { params: Promise<{ id: st
     if (e instanceof AppError && e.code === 'not_found') notFound();
     throw e;
   });
-  const fits = await Fit.findAll({ where: { workspaceId: actor.workspace.id, datasetId }, order: [['id', 'DESC']], attributes: ['id', 'status', 'params', 'createdAt', 'error'] });
+  const fits = await Fit.findAll({ where: { workspaceId: actor.workspace.id, datasetId }, order: [['id', 'DESC']], attributes: ['id', 'number', 'status', 'params', 'createdAt', 'error'] });
   const numeric = dataset.columns.filter((c) => c.kind === 'numeric');
   const complete = dataset.cells.filter((r) => dataset.columns.every((c, j) => c.kind !== 'numeric' || typeof r[j] === 'number')).length;
   return (
@@ -36,7 +36,7 @@ export default async function DatasetPage({ params }: { params: Promise<{ id: st
       title={dataset.name}
       lead={
         <>
-          {dataset.originalFilename} · {count(dataset.rowCount)} rows · {numeric.length} numeric and {dataset.columns.length - numeric.length} text column{dataset.columns.length - numeric.length === 1 ? '' : 's'} ·{' '}
+          Dataset {dataset.number} · {dataset.originalFilename} · {count(dataset.rowCount)} rows · {numeric.length} numeric and {dataset.columns.length - numeric.length} text column{dataset.columns.length - numeric.length === 1 ? '' : 's'} ·{' '}
           {complete === dataset.rowCount ? 'no gaps' : `${count(dataset.rowCount - complete)} rows have a gap in some numeric column`}
         </>
       }
@@ -62,12 +62,12 @@ export default async function DatasetPage({ params }: { params: Promise<{ id: st
               return (
                 <li key={f.id} className="flex flex-wrap items-center justify-between gap-3 py-2.5 text-sm">
                   <Link href={`/studio/fits/${f.id}`} className="font-bold text-moss-700 hover:underline">
-                    Fit #{f.id}
+                    Fit {f.number}
                   </Link>
                   <span className="flex-1 text-ink-soft">
                     {(p.features ?? []).join(', ')} · {p.minComponents}–{p.maxComponents} components · {(p.covariances ?? []).join(', ')}
                   </span>
-                  <span className="text-ink-faint">{new Date(f.createdAt).toLocaleString('en-GB', { dateStyle: 'medium', timeStyle: 'short' })}</span>
+                  <span className="text-ink-faint">{formatDateTime(f.createdAt)}</span>
                   <FitStatusPill status={f.status} />
                 </li>
               );

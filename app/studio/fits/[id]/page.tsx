@@ -6,11 +6,18 @@ import { parseDecimalId } from '@/lib/http/ids';
 import { findFit } from '@/lib/fitting/jobs';
 import { queuePositionOf } from '@/lib/fitting/queue';
 import { fitView } from '@/lib/fitting/views';
-import { Dataset } from '@/models';
+import { Dataset, Fit, MixtureModel } from '@/models';
+import { formatCount } from '@/lib/format';
 import { FitWorkbench } from '@/components/studio/FitWorkbench';
 import { StudioPage } from '@/components/studio/StudioPage';
 
-export const metadata: Metadata = { title: 'Fit' };
+/** The tab title names the fit by its number in the workspace. */
+export async function generateMetadata({ params }: { params: Promise<{ id: string }> }): Promise<Metadata> {
+  const fitId = Number((await params).id);
+  const actor = await pageWorkspace('member', `/studio/fits/${fitId}`).catch(() => null);
+  const fit = actor && Number.isInteger(fitId) && fitId > 0 ? await Fit.findOne({ where: { id: fitId, workspaceId: actor.workspace.id }, attributes: ['number'] }) : null;
+  return { title: fit ? `Fit ${fit.number}` : 'Fit' };
+}
 export const dynamic = 'force-dynamic';
 
 export default async function FitPage({ params }: { params: Promise<{ id: string }> }) {
@@ -24,18 +31,23 @@ export default async function FitPage({ params }: { params: Promise<{ id: string
   });
   const dataset = await Dataset.findOne({ where: { id: fit.datasetId, workspaceId: actor.workspace.id }, attributes: ['id', 'name'] });
   const p = fit.params as { features?: string[]; minComponents?: number; maxComponents?: number; covariances?: string[]; restarts?: number; seed?: number; standardize?: boolean; rows?: number; dropped?: number };
+  // Models already kept from this fit, so the page says so instead of inviting a duplicate.
+  const kept = (await MixtureModel.findAll({ where: { workspaceId: actor.workspace.id, fitId: fit.id }, attributes: ['id', 'name', 'model'], order: [['id', 'ASC']] })).map((m) => {
+    const engine = m.model as { weights?: number[]; structure?: string };
+    return { id: m.id, name: m.name, components: engine.weights?.length ?? 0, covariance: engine.structure ?? '' };
+  });
   const view = JSON.parse(JSON.stringify(fitView(fit, await queuePositionOf(fit))));
   return (
     <StudioPage
       trail={[{ href: '/studio/datasets', label: 'Datasets' }, ...(dataset ? [{ href: `/studio/datasets/${dataset.id}`, label: dataset.name }] : [])]}
-      title={`Fit #${fit.id}`}
+      title={`Fit ${fit.number}`}
       lead={
         <>
-          {(p.features ?? []).join(', ')} · {p.minComponents}–{p.maxComponents} components · {(p.covariances ?? []).join(', ')} · {p.restarts} restart{p.restarts === 1 ? '' : 's'} · seed {p.seed} · {p.standardize ? 'standardised' : 'raw units'} · {p.rows} rows{p.dropped ? ` (${p.dropped} with gaps left out)` : ''}
+          {(p.features ?? []).join(', ')} · {p.minComponents}–{p.maxComponents} components · {(p.covariances ?? []).join(', ')} · {p.restarts} restart{p.restarts === 1 ? '' : 's'} · seed {p.seed} · {p.standardize ? 'standardised' : 'raw units'} · {formatCount(p.rows)} rows{p.dropped ? ` (${formatCount(p.dropped)} with gaps left out)` : ''}
         </>
       }
     >
-      <FitWorkbench initial={view} datasetName={dataset?.name ?? 'Model'} />
+      <FitWorkbench initial={view} datasetName={dataset?.name ?? 'Model'} kept={kept} />
     </StudioPage>
   );
 }

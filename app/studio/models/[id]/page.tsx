@@ -5,11 +5,11 @@ import { pageWorkspace } from '@/lib/auth/page';
 import { AppError } from '@/lib/errors';
 import { parseDecimalId } from '@/lib/http/ids';
 import { findModel } from '@/lib/fitting/models';
-import { Dataset } from '@/models';
+import { Dataset, Embed, Fit } from '@/models';
 import { ModelEditor } from '@/components/studio/ModelEditor';
 import { ReviewPanel } from '@/components/studio/ReviewPanel';
 import { Section, StudioPage } from '@/components/studio/StudioPage';
-import { num } from '@/components/studio/format';
+import { formatCount, formatFixed } from '@/lib/format';
 
 export const metadata: Metadata = { title: 'Model' };
 export const dynamic = 'force-dynamic';
@@ -35,6 +35,9 @@ export default async function ModelPage({ params }: { params: Promise<{ id: stri
   });
   const engine = model.model as unknown as EngineModelShape;
   const dataset = model.datasetId ? await Dataset.findOne({ where: { id: model.datasetId, workspaceId: actor.workspace.id }, attributes: ['id', 'name'] }) : null;
+  const calculators = await Embed.findAll({ where: { workspaceId: actor.workspace.id, mixtureModelId: model.id }, attributes: ['id', 'title', 'status'], order: [['id', 'ASC']] });
+  const fit = model.fitId ? await Fit.findOne({ where: { id: model.fitId, workspaceId: actor.workspace.id }, attributes: ['id', 'number'] }) : null;
+  const live = calculators.filter((c) => c.status !== 'retired');
   const rank = engine.ranking?.find((r) => r.components === engine.weights.length && r.covariance === engine.structure)?.rank;
   return (
     <StudioPage
@@ -42,24 +45,43 @@ export default async function ModelPage({ params }: { params: Promise<{ id: stri
       title={model.name}
       lead={
         <>
-          {engine.weights.length} clusters · {engine.structure} covariance · {engine.features.length} features · fitted on {engine.training.rows} rows · BIC {num(engine.bic, 1)}
+          {engine.weights.length} clusters · {engine.structure} covariance · {engine.features.length} features · fitted on {formatCount(engine.training.rows)} rows · BIC {formatFixed(engine.bic, 1)}
           {rank ? ` (rank ${rank})` : ''}
-          {model.fitId ? (
+          {fit ? (
             <>
               {' · '}
-              <Link href={`/studio/fits/${model.fitId}`} className="font-bold text-moss-700 hover:underline">
-                fit #{model.fitId}
+              <Link href={`/studio/fits/${fit.id}`} className="font-bold text-moss-700 hover:underline">
+                fit {fit.number}
               </Link>
             </>
           ) : null}
         </>
       }
       actions={
-        <a className="pw-button-quiet" href={`/api/models/${model.id}/download`} download>
-          Download model JSON
-        </a>
+        <div className="flex flex-wrap items-center gap-3">
+          <a className="pw-button-quiet" href={`/api/models/${model.id}/download`} download>
+            Download model JSON
+          </a>
+          <Link className="pw-button" href={`/studio/calculators?model=${model.id}#publish`}>
+            {live.length ? 'Publish as another calculator' : 'Publish as a calculator'}
+          </Link>
+        </div>
       }
     >
+      {live.length > 0 && (
+        <p className="-mt-4 text-sm text-ink-soft" data-testid="published-as">
+          Published as{' '}
+          {live.map((c, i) => (
+            <span key={c.id}>
+              {i > 0 ? ', ' : ''}
+              <Link href={`/studio/calculators/${c.id}`} className="font-bold text-moss-700 hover:underline">
+                {c.title}
+              </Link>
+            </span>
+          ))}
+          . A calculator keeps the version it was published with: after changing names or fields here, publish a new version from its page.
+        </p>
+      )}
       {model.selectionNote && (
         <Section title="Why this candidate" id="note">
           <p className="text-ink-soft">{model.selectionNote}</p>

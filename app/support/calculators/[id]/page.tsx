@@ -4,7 +4,7 @@ import Link from 'next/link';
 import { notFound } from 'next/navigation';
 import { AuditTable } from '@/components/support/AuditTable';
 import { ClearFlagButton } from '@/components/support/ClearFlagButton';
-import { fmtCount, fmtDate, fmtDateTime } from '@/components/support/format';
+import { formatCount as fmtCount, formatDate as fmtDate, formatDateTime as fmtDateTime } from '@/lib/format';
 import { ReasonForm } from '@/components/support/ReasonForm';
 import { ReportList } from '@/components/support/ReportList';
 import { StaffOnly } from '@/components/support/StaffOnly';
