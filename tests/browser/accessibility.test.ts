@@ -20,6 +20,7 @@ const reports: AxeReport[] = [];
 let lightToken = '';
 let darkToken = '';
 let demoToken = '';
+const settings = { userId: 0, workspaceId: 0, embedId: 0 };
 const demo = { ownerId: 0, staffId: 0, workspaceId: 0, datasetId: 0, fitId: 0, modelId: 0, embedId: 0 };
 
 const FIELDS = ['Average speed (km/h)', 'Weekly distance (km)', 'Climbing per ride (m)'];
@@ -36,6 +37,8 @@ beforeAll(async () => {
   const dark = (await publishNew(acting, { mixtureModelId: ws.model.id, title: 'Which ride group suits you?' })).embed;
   await updateSettings(acting, dark.id, { theme: 'dark', accentColor: '#e0a526' });
   darkToken = dark.token;
+  const forSettings = (await publishNew(acting, { mixtureModelId: ws.model.id, title: 'Accent colour check' })).embed;
+  Object.assign(settings, { userId: ws.owner.id, workspaceId: ws.workspace.id, embedId: forSettings.id });
 
   const workspace = (await Workspace.findOne({ where: { slug: DEMO_WORKSPACE.slug } }))!;
   const first = { where: { workspaceId: workspace.id }, order: [['id', 'ASC']] as [string, string][] };
@@ -162,6 +165,33 @@ describe('axe-core on the studio and the support console', () => {
       if (report.violations.some(isSerious)) failures.push(describeViolations(report, isSerious));
     }
     expect(failures, failures.join('\n')).toEqual([]);
+    await context.close();
+  });
+
+  it('the calculator settings refuse a hard-to-see accent next to the colour field and offer the nearest readable one', async () => {
+    const context = await browser.newContext({ viewport: { width: 1280, height: 1000 } });
+    await signInContext(context, settings.userId, settings.workspaceId);
+    const page = await context.newPage();
+    await page.goto(appUrl(`/studio/calculators/${settings.embedId}`));
+    const accent = page.getByLabel('Accent colour');
+    await accent.fill('#f0c763');
+    await page.getByRole('button', { name: 'Save settings' }).click();
+    const error = page.getByTestId('accent-error');
+    await error.waitFor();
+    expect(await error.textContent()).toContain('#f0c763 is hard to see on the light theme');
+    expect(await accent.getAttribute('aria-invalid')).toBe('true');
+    expect(await accent.getAttribute('aria-describedby')).toBe(await error.getAttribute('id'));
+    await check(page, 'studio-settings-accent-refused');
+    const { Embed } = await import('@/models');
+    expect((await Embed.findByPk(settings.embedId))!.accentColor).toBe('#2f6f5e');
+
+    await page.getByRole('button', { name: 'Use #be8c12' }).click();
+    expect(await accent.inputValue()).toBe('#be8c12');
+    expect(await error.count()).toBe(0);
+    await page.getByRole('button', { name: 'Save settings' }).click();
+    await page.getByRole('status').filter({ hasText: 'Saved.' }).waitFor();
+    expect((await Embed.findByPk(settings.embedId))!.accentColor).toBe('#be8c12');
+    await screenshot(page, 'a11y-studio-settings-accent-saved');
     await context.close();
   });
 
