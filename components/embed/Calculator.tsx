@@ -233,7 +233,8 @@ export function Calculator(props: CalculatorProps) {
                 You changed your values. The answer below is for the earlier ones; press &ldquo;Show my groups&rdquo; to update it.
               </p>
             )}
-            <div className={`space-y-3 transition-opacity ${stale ? 'opacity-40' : ''}`}>
+            {/* Stale: greyed, yet its text keeps 4.5:1 (a fainter fade would make it unreadable). */}
+            <div className={`space-y-3 transition ${stale ? 'opacity-80 grayscale' : ''}`}>
               {answer.unusual ? (
                 // Values far from all the data: the message leads, the nearest group is only mentioned.
                 <div className="space-y-1 rounded-lg border border-saffron-500/60 bg-saffron-100 px-3 py-2 text-ink" data-testid="unusual-notice">

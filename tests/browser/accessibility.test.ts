@@ -20,6 +20,7 @@ const reports: AxeReport[] = [];
 let lightToken = '';
 let darkToken = '';
 let demoToken = '';
+let demoAccent = { accentColor: '', theme: 'light' as 'light' | 'dark' };
 const settings = { userId: 0, workspaceId: 0, embedId: 0 };
 const demo = { ownerId: 0, staffId: 0, workspaceId: 0, datasetId: 0, fitId: 0, modelId: 0, embedId: 0 };
 
@@ -45,6 +46,7 @@ beforeAll(async () => {
   const [embed, dataset, fit, model] = await Promise.all([Embed.findOne(first), Dataset.findOne(first), Fit.findOne(first), MixtureModel.findOne(first)]);
   if (!embed || !dataset || !fit || !model) throw new Error('the test stack has no seeded demo workspace');
   demoToken = embed.token;
+  demoAccent = { accentColor: embed.accentColor, theme: embed.theme };
   Object.assign(demo, {
     workspaceId: workspace.id,
     embedId: embed.id,
@@ -94,6 +96,9 @@ async function openCalculator(context: BrowserContext, token: string): Promise<P
 
 describe('axe-core on the calculator (WCAG 2.1 A and AA)', () => {
   it('the seeded demo calculator: before and after an answer, at 1280 px and 320 px', async () => {
+    // The seed's accent and theme pass the accent rule the settings enforce.
+    const { accentPasses } = await import('@/lib/embeds/contrast');
+    expect(accentPasses(demoAccent.accentColor, demoAccent.theme), JSON.stringify(demoAccent)).toBe(true);
     for (const width of [1280, 320]) {
       const context = await browser.newContext({ viewport: { width, height: 900 } });
       const page = await openCalculator(context, demoToken);
@@ -121,6 +126,10 @@ describe('axe-core on the calculator (WCAG 2.1 A and AA)', () => {
 
         await answer(page, ['31', '250', '640']);
         await check(page, `${name}-3-answer`);
+        // Edited after the answer: the old answer is greyed out but must stay readable.
+        await page.getByLabel(FIELDS[0]).fill('32');
+        await page.getByTestId('stale-notice').waitFor();
+        await check(page, `${name}-3b-stale`);
 
         await answer(page, ['44', '5', '2900']);
         await page.getByTestId('unusual-notice').waitFor();
@@ -362,7 +371,7 @@ describe('reduced motion', () => {
     await answer(page, ['31', '250', '640']);
     await page.getByLabel(FIELDS[0]).fill('32');
     await page.getByTestId('stale-notice').waitFor();
-    expect(await transition(page, '[data-testid="answer"] .transition-opacity')).toBe('0s');
+    expect(await transition(page, '[data-testid="answer"] [class*="grayscale"]')).toBe('0s');
     expect(await page.evaluate(() => document.getAnimations().filter((a) => a.playState === 'running').length)).toBe(0);
     await context.close();
   });
