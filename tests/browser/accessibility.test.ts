@@ -328,6 +328,47 @@ describe('the calculator with the keyboard only', () => {
   });
 });
 
+/** A computed CSS colour as #rrggbb, an rgba() one laid over `under` (#rrggbb). */
+function solid(css: string, under: string): string {
+  const m = /rgba?\(([\d.]+), ([\d.]+), ([\d.]+)(?:, ([\d.]+))?\)/.exec(css);
+  if (!m) throw new Error(`not an rgb colour: ${css}`);
+  const a = m[4] === undefined ? 1 : Number(m[4]);
+  const base = [1, 3, 5].map((i) => Number.parseInt(under.slice(i, i + 2), 16));
+  return `#${[m[1], m[2], m[3]].map((v, i) => Math.round(Number(v) * a + base[i] * (1 - a)).toString(16).padStart(2, '0')).join('')}`;
+}
+
+describe('fields and focus rings stand out (WCAG 1.4.11, 3:1)', () => {
+  it('calculator fields in light and dark, studio fields and their focus ring', async () => {
+    const { contrastRatio } = await import('@/lib/embeds/contrast');
+    const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    await signInContext(context, demo.ownerId, demo.workspaceId);
+    const css = (page: Page, selector: string) =>
+      page.locator(selector).first().evaluate((el) => {
+        const s = getComputedStyle(el);
+        return { border: s.borderTopColor, background: s.backgroundColor, shadow: s.boxShadow };
+      });
+    for (const [token, page_, field] of [[lightToken, '#ffffff', '#ffffff'], [darkToken, '#151924', '#1c2130']] as const) {
+      const page = await openCalculator(context, token);
+      const { border } = await css(page, 'input[inputmode="decimal"]');
+      const edge = solid(border, field);
+      expect(Math.min(contrastRatio(edge, field), contrastRatio(edge, page_)), `${border} on ${field}/${page_}`).toBeGreaterThanOrEqual(3);
+      await page.close();
+    }
+    const studio = await context.newPage();
+    await studio.goto(appUrl(`/studio/datasets/${demo.datasetId}`));
+    const input = studio.locator('input.pw-input').first();
+    const before = await css(studio, 'input.pw-input');
+    expect(contrastRatio(solid(before.border, '#ffffff'), '#ffffff'), before.border).toBeGreaterThanOrEqual(3);
+    await input.focus();
+    const focusedCss = await css(studio, 'input.pw-input');
+    // The ring is the shadow layer with a spread (Tailwind also lays empty ones and a 0 px offset).
+    const layers = focusedCss.shadow.split(/,(?![^(]*\))/).map((l) => l.trim());
+    const ring = layers.map((l) => /^(rgba?\([^)]*\)) .* (\d+(?:\.\d+)?)px$/.exec(l)).find((m) => m && Number(m[2]) > 0)?.[1] ?? '';
+    expect(contrastRatio(solid(ring, '#ffffff'), '#ffffff'), focusedCss.shadow).toBeGreaterThanOrEqual(3);
+    await context.close();
+  });
+});
+
 describe('the membership chart for screen readers', () => {
   it('reads the probabilities as a list; the drawn chart is hidden from assistive technology', async () => {
     const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
