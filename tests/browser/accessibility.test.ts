@@ -138,6 +138,10 @@ describe('axe-core on the calculator (WCAG 2.1 A and AA)', () => {
         await page.getByRole('button', { name: 'Report this calculator' }).click();
         await page.getByRole('button', { name: 'Send report' }).click();
         await page.getByText('Choose a reason.').waitFor();
+        // The first invalid field of the report takes the focus and is described by its error.
+        const reason = page.getByLabel('Reason');
+        expect(await reason.evaluate((el) => el === document.activeElement)).toBe(true);
+        expect(await page.locator(`[id="${await reason.getAttribute('aria-describedby')}"]`).textContent()).toBe('Choose a reason.');
         await check(page, `${name}-5-report-form`);
         await context.close();
       });
