@@ -133,3 +133,14 @@ export function formatDuration(ms: Maybe): string {
   const minutes = Math.floor(ms / 60_000);
   return `${formatCount(minutes)} min ${Math.round((ms % 60_000) / 1000)} s`;
 }
+
+/**
+ * A membership probability as visitors read it: whole percents, and the two ends as
+ * "over 99%" / "under 1%" so a rounded "100%" or "0%" never claims certainty.
+ */
+export function formatProbability(probability: number): string {
+  const whole = numberFormat({ style: 'percent', maximumFractionDigits: 0 });
+  if (probability >= 0.995) return `over ${whole.format(0.99)}`;
+  if (probability < 0.005) return `under ${whole.format(0.01)}`;
+  return whole.format(probability);
+}

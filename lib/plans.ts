@@ -1,3 +1,5 @@
+import { formatMoney } from '@/lib/format';
+
 /**
  * The one place that knows Partwise's plans and their limits. Every limit check in
  * the app asks this module; prices here are shown on the pricing section and are
@@ -79,7 +81,7 @@ export function isPlanId(id: string): id is PlanId {
 }
 
 export function formatPrice(cents: number): string {
-  return cents === 0 ? 'Free' : `€${(cents / 100).toFixed(cents % 100 === 0 ? 0 : 2)}`;
+  return cents === 0 ? 'Free' : formatMoney(cents, 'eur', { dropZeroCents: true });
 }
 
 // ---- Calculator burst limits (fair use of scoring) ----

@@ -15,6 +15,8 @@ export interface FieldSetting {
   min: number;
   max: number;
   help: string;
+  /** May the visitor leave it blank (answered from the other fields' marginal)? Absent = false: required. */
+  optional?: boolean;
 }
 
 /** A chosen, named candidate from a fit; editable until published as a version. */

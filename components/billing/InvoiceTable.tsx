@@ -1,6 +1,6 @@
 import Link from 'next/link';
 import type { InvoiceView } from '@/lib/billing/summary';
-import { day, euros } from './format';
+import { formatDate as day, formatMoney as euros } from '@/lib/format';
 
 const STATUS_WORDS: Record<string, string> = { paid: 'Settled', open: 'Awaiting payment', void: 'Voided', uncollectible: 'Not collected', draft: 'Draft' };
 

@@ -4,7 +4,7 @@ import { useRouter } from 'next/navigation';
 import { useEffect, useRef, useState } from 'react';
 import type { PlanChangePreview } from '@/lib/billing/subscriptions';
 import { billingRequest } from './api';
-import { bytes, day, euros, whole } from './format';
+import { formatBytes as bytes, formatCount as whole, formatDate as day, formatMoney as euros } from '@/lib/format';
 
 interface PlanOption {
   id: string;

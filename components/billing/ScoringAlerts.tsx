@@ -1,11 +1,9 @@
 import type { ScoringAlert } from '@/lib/scoring/alerts';
-import { whole } from './format';
+import { formatCount as whole, formatDateTime } from '@/lib/format';
 
 const WINDOW: Record<number, string> = { 1: 'a minute', 60: 'an hour', 1440: 'a day' };
 
-function when(iso: string): string {
-  return new Date(iso).toLocaleString('en-GB', { day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit', timeZone: 'UTC', timeZoneName: 'short' });
-}
+const when = (iso: string) => formatDateTime(iso);
 
 function describe(a: ScoringAlert, pauseThreshold: number): { title: string; detail: string; tone: 'warn' | 'stop' } {
   if (a.kind === 'burst') {

@@ -1,5 +1,5 @@
 import type { UsageMeter } from '@/lib/billing/summary';
-import { bytes, whole } from './format';
+import { formatBytes as bytes, formatCount as whole } from '@/lib/format';
 
 /** One progress bar per plan limit; colour shifts at 80 % and past 100 %. */
 export function UsageMeters({ meters, pauseAt }: { meters: UsageMeter[]; pauseAt: number }) {

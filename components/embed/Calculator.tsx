@@ -1,9 +1,12 @@
 'use client';
 import { useEffect, useId, useMemo, useRef, useState, type FormEvent } from 'react';
 import type { CalculatorProps } from '@/lib/embeds/calculator-page';
+import type { AnswerReason as Reason } from '@/lib/scoring/score';
+import { AnswerReason } from './AnswerReason';
 import { MembershipChart, preloadChart, type MembershipRow } from './MembershipChart';
-import { formatPercent } from './percent';
+import { formatProbability as formatPercent } from '@/lib/format';
 import { ReportForm } from './ReportForm';
+import { blankTexts } from './texts';
 import { useHostSize } from './useHostSize';
 
 interface Answer {
@@ -12,6 +15,10 @@ interface Answer {
   typicality: number;
   unusual: boolean;
   threshold: number;
+  /** Features the answer was worked out from / left blank, in field order. */
+  used: string[];
+  unused: string[];
+  reason: Reason | null;
 }
 
 /** A message above the answer; `untilEdit` ones are about the values on screen and go when a value changes. */
@@ -37,7 +44,7 @@ function readNumber(text: string): number | null {
 
 /** The same checks the server makes, so most mistakes are explained before sending. */
 function checkField(f: Field, text: string): string | null {
-  if (!text.trim()) return `Enter ${f.label}.`;
+  if (!text.trim()) return f.optional ? null : `Enter ${f.label}.`;
   const v = readNumber(text);
   if (v === null) return `${f.label} must be a number.`;
   if (v < f.min || v > f.max) return `${f.label} must be between ${f.min} and ${f.max}${f.unit ? ` ${f.unit}` : ''}.`;
@@ -49,12 +56,12 @@ function checkField(f: Field, text: string): string | null {
  * "24,5" and "24.5" have the same key: equal keys would get the same answer.
  */
 function valuesKey(fields: Field[], values: Record<string, string>): string | null {
-  const numbers: number[] = [];
+  const numbers: (number | null)[] = [];
   for (const f of fields) {
     const text = values[f.feature] ?? '';
-    const v = checkField(f, text) ? null : readNumber(text);
-    if (v === null) return null;
-    numbers.push(v);
+    if (checkField(f, text)) return null;
+    // A blank optional field is part of the key: filling it in asks a new question.
+    numbers.push(text.trim() ? readNumber(text) : null);
   }
   return JSON.stringify(numbers);
 }
@@ -113,7 +120,8 @@ export function Calculator(props: CalculatorProps) {
     setNotice(null);
     preloadChart();
     try {
-      const body = { values: Object.fromEntries(fields.map((f) => [f.feature, readNumber(values[f.feature])])) };
+      // A blank optional field is sent as null: not observed, answered from the other fields.
+      const body = { values: Object.fromEntries(fields.map((f) => [f.feature, (values[f.feature] ?? '').trim() ? readNumber(values[f.feature]) : null])) };
       const res = await fetch(`/api/score/${encodeURIComponent(token)}`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) });
       const data = await res.json().catch(() => null);
       if (res.ok) {
@@ -152,6 +160,7 @@ export function Calculator(props: CalculatorProps) {
   }
 
   // Kept while the visitor types, so the chart is drawn once per answer, not per keystroke.
+  const labelOf = (feature: string) => fields.find((f) => f.feature === feature)?.label ?? feature;
   const rows: MembershipRow[] = useMemo(() => (answer ? answer.probabilities.map((p) => ({ label: p.label, probability: p.probability, color: p.color })) : []), [answer]);
 
   return (
@@ -172,6 +181,7 @@ export function Calculator(props: CalculatorProps) {
               <label htmlFor={id} className="mb-1 block text-sm font-bold text-ink-soft dark:text-[#d5d9e2]">
                 {f.label}
                 {f.unit && <span className="font-normal"> ({f.unit})</span>}
+                {f.optional && <span className="font-normal"> ({blankTexts.optionalMark})</span>}
               </label>
               <input
                 ref={(el) => {
@@ -182,8 +192,8 @@ export function Calculator(props: CalculatorProps) {
                 type="text"
                 inputMode="decimal"
                 autoComplete="off"
-                required
-                aria-required="true"
+                required={!f.optional}
+                aria-required={f.optional ? undefined : 'true'}
                 aria-invalid={error ? true : undefined}
                 aria-describedby={described}
                 data-min={f.min}
@@ -202,7 +212,7 @@ export function Calculator(props: CalculatorProps) {
               />
               <p id={`${id}-range`} className="mt-1 text-xs text-ink-soft dark:text-[#a9b0bf]">
                 {f.help ? <span id={`${id}-help`}>{f.help} </span> : null}
-                Accepted: {rangeText(f)}.
+                Accepted: {rangeText(f)}.{f.optional ? ` ${blankTexts.optionalHint}` : null}
               </p>
               {/* Always there, so a screen reader speaks an error as it appears (it is also linked to the field). */}
               <div aria-live="polite" data-testid={`error-region-${f.feature}`}>
@@ -253,7 +263,13 @@ export function Calculator(props: CalculatorProps) {
                   {answer.best.description && <p className="text-sm text-ink-soft dark:text-[#c9ced8]">{answer.best.description}</p>}
                 </>
               )}
+              {answer.unused.length > 0 && (
+                <p className="text-sm text-ink-soft dark:text-[#c9ced8]" data-testid="unused-fields">
+                  {blankTexts.notUsed(answer.unused.map(labelOf))}
+                </p>
+              )}
               <MembershipChart spec={chartSpec} rows={rows} />
+              {answer.reason && <AnswerReason reason={answer.reason} groups={answer.probabilities} labelOf={labelOf} />}
             </div>
           </div>
         )}

@@ -1,6 +1,6 @@
 'use client';
 import { useEffect, useRef, useState } from 'react';
-import { formatPercent } from './percent';
+import { formatProbability as formatPercent } from '@/lib/format';
 
 export interface MembershipRow {
   label: string;

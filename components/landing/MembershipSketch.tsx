@@ -1,5 +1,5 @@
 import type { ExampleAnswer } from '@/lib/demo/example-answer';
-import { formatPercent } from '@/components/embed/percent';
+import { formatProbability as formatPercent } from '@/lib/format';
 
 const number = new Intl.NumberFormat('en');
 

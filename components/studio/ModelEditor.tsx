@@ -21,7 +21,9 @@ interface Props {
   weights: number[];
 }
 
-type FieldDraft = Omit<FieldSetting, 'min' | 'max'> & { min: string; max: string };
+/** "optional": visitors may leave the field blank (answered from the other fields); the select's values. */
+type Answering = 'required' | 'optional';
+type FieldDraft = Omit<FieldSetting, 'min' | 'max' | 'optional'> & { min: string; max: string; optional: Answering };
 interface Values {
   name: string;
   clusters: ClusterLabel[];
@@ -37,7 +39,7 @@ export function ModelEditor(props: Props) {
   const [saved, setSaved] = useState(false);
   const [notice, setNotice] = useState<string | null>(null);
   const { register, handleSubmit, setError, setValue, watch, getValues, formState } = useForm<Values>({
-    defaultValues: { name: props.name, clusters: props.clusters, fields: props.fields.map((f) => ({ ...f, min: String(f.min), max: String(f.max) })), caution: props.caution },
+    defaultValues: { name: props.name, clusters: props.clusters, fields: props.fields.map((f) => ({ ...f, min: String(f.min), max: String(f.max), optional: f.optional ? 'optional' : 'required' })), caution: props.caution },
   });
   const errors = formState.errors;
   const clusters = watch('clusters');
@@ -50,7 +52,7 @@ export function ModelEditor(props: Props) {
     try {
       await api(`/api/models/${props.modelId}`, {
         method: 'PATCH',
-        json: { name: values.name, clusters: values.clusters, fields: values.fields.map((f) => ({ ...f, min: parseTypedNumber(f.min), max: parseTypedNumber(f.max) })), caution: values.caution },
+        json: { name: values.name, clusters: values.clusters, fields: values.fields.map((f) => ({ ...f, min: parseTypedNumber(f.min), max: parseTypedNumber(f.max), optional: f.optional === 'optional' })), caution: values.caution },
       });
       setSaved(true);
       router.refresh();
@@ -61,7 +63,7 @@ export function ModelEditor(props: Props) {
         if (m && m[1] === 'clusters' && ['label', 'description', 'color'].includes(m[3])) {
           return { name: `clusters.${Number(m[2])}.${m[3] as 'label'}`, message: message };
         }
-        if (m && m[1] === 'fields' && ['label', 'unit', 'min', 'max', 'help'].includes(m[3])) return { name: `fields.${Number(m[2])}.${m[3] as 'label'}` };
+        if (m && m[1] === 'fields' && ['label', 'unit', 'min', 'max', 'help', 'optional'].includes(m[3])) return { name: `fields.${Number(m[2])}.${m[3] as 'label'}` };
         if (field === 'name' || field === 'caution') return { name: field };
         return null;
       });
@@ -136,7 +138,10 @@ export function ModelEditor(props: Props) {
       </fieldset>
       <fieldset className="min-w-0">
         <legend className="font-display text-lg font-semibold">Calculator fields</legend>
-        <p className="mb-3 text-sm text-ink-soft">What visitors see for each input and the range it accepts.</p>
+        <p className="mb-3 text-sm text-ink-soft">
+          What visitors see for each input, the range it accepts, and whether they may leave it blank. A blank field is not guessed: the answer is worked out from the other
+          fields alone, and says which fields it did not use.
+        </p>
         <div className="overflow-x-auto">
           <table className="w-full text-left text-sm">
             <thead className="text-ink-soft">
@@ -146,7 +151,8 @@ export function ModelEditor(props: Props) {
                 <th className="py-2 pr-3 font-bold">Unit</th>
                 <th className="py-2 pr-3 font-bold">From</th>
                 <th className="py-2 pr-3 font-bold">To</th>
-                <th className="py-2 font-bold">Help text</th>
+                <th className="py-2 pr-3 font-bold">Help text</th>
+                <th className="py-2 font-bold">Visitors</th>
               </tr>
             </thead>
             <tbody>
@@ -185,9 +191,16 @@ export function ModelEditor(props: Props) {
                       />
                       {fe?.max && <p className="pw-field-error">{fe.max.message}</p>}
                     </td>
-                    <td className="py-1.5">
+                    <td className="py-1.5 pr-3">
                       <input aria-label={`Help text of ${f.feature}`} className="pw-input py-1.5 text-sm" maxLength={300} placeholder="e.g. your average over the last month" {...register(`fields.${j}.help`, touch)} />
                       {fe?.help && <p className="pw-field-error">{fe.help.message}</p>}
+                    </td>
+                    <td className="w-44 py-1.5">
+                      <select aria-label={`Must visitors fill in ${f.feature}?`} className="pw-input py-1.5 text-sm" data-testid={`answering-${f.feature}`} {...register(`fields.${j}.optional`, touch)}>
+                        <option value="required">Required</option>
+                        <option value="optional">May be left blank</option>
+                      </select>
+                      {fe?.optional && <p className="pw-field-error">{fe.optional.message}</p>}
                     </td>
                   </tr>
                 );

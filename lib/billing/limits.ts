@@ -1,3 +1,4 @@
+import { formatBytes, formatCount } from '@/lib/format';
 import { Op, QueryTypes, UniqueConstraintError, type Transaction } from 'sequelize';
 import { AppError } from '@/lib/errors';
 import { enqueueMail } from '@/lib/mail';
@@ -42,13 +43,7 @@ export function upgradeHint(plan: Plan, next: Plan | null, limitOf: (p: Plan) =>
   return `No plan allows that much: ${largest.name}, the largest, ${limitOf(largest)}. Contact Partwise support for more.`;
 }
 
-const fmt = (n: number) => n.toLocaleString('en-US');
-
-export function formatBytes(bytes: number): string {
-  if (bytes >= 1024 * 1024) return `${(bytes / (1024 * 1024)).toFixed(bytes % (1024 * 1024) === 0 ? 0 : 1)} MB`;
-  if (bytes >= 1024) return `${Math.round(bytes / 1024)} KB`;
-  return `${bytes} bytes`;
-}
+const fmt = formatCount;
 
 /** Calculators that count against the limit: published and not retired (disabled ones still hold a place). */
 export async function countLiveCalculators(workspaceId: number, transaction?: Transaction): Promise<number> {

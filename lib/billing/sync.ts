@@ -2,7 +2,7 @@ import type Stripe from 'stripe';
 import { recordAudit } from '@/lib/audit';
 import { enqueueMail } from '@/lib/mail';
 import { DEFAULT_PLAN, getPlan } from '@/lib/plans';
-import { formatDay, formatMoney } from '@/components/billing/format';
+import { formatDate as formatDay, formatMoney } from '@/lib/format';
 import { Invoice, Subscription, Workspace } from '@/models';
 import type { InvoiceLine } from '@/models/Invoice';
 import { planForPrice } from './catalog';

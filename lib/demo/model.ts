@@ -76,7 +76,9 @@ export async function seedDemoModel({ workspace, owner, dataset }: { workspace: 
   const engine = parseModelJson(best.model);
   engine.ranking = outcome.candidates.map(({ model: _m, trace: _t, ...c }) => c);
   const clusters = nameClusters(engine.means).map((g, k) => ({ ...g, color: clusterColor(k) }));
-  const fields = DEMO_FEATURES.map((name) => ({ feature: name, label: settings[name].displayName, unit: settings[name].unit, min: settings[name].inputMin, max: settings[name].inputMax, help: helpFor(name) }));
+  // Not every rider knows their climbing: the club lets visitors leave it blank (answered from speed and distance alone).
+  const optional = new Set(['climb_per_ride_m']);
+  const fields = DEMO_FEATURES.map((name) => ({ feature: name, label: settings[name].displayName, unit: settings[name].unit, min: settings[name].inputMin, max: settings[name].inputMax, help: helpFor(name), optional: optional.has(name) }));
   await MixtureModel.create({
     workspaceId: workspace.id,
     fitId: fit.id,
@@ -95,7 +97,7 @@ export async function seedDemoModel({ workspace, owner, dataset }: { workspace: 
 function helpFor(feature: string): string {
   if (feature === 'avg_speed_kmh') return 'Your usual average speed on a club ride.';
   if (feature === 'weekly_distance_km') return 'Roughly how far you ride in a normal week.';
-  return 'Typical height gained on one ride.';
+  return 'Typical height gained on one ride; leave it blank if you have never measured it.';
 }
 
 /**

@@ -15,7 +15,7 @@ export type CalculatorView =
 export interface CalculatorProps {
   token: string;
   title: string;
-  fields: { feature: string; label: string; unit: string; min: number; max: number; help: string }[];
+  fields: { feature: string; label: string; unit: string; min: number; max: number; help: string; optional: boolean }[];
   clusters: { label: string; description: string; color: string }[];
   caution: string;
   theme: 'light' | 'dark';
@@ -52,7 +52,7 @@ export async function loadCalculatorView(token: string, host: string | undefined
     props: {
       token: embed.token,
       title: embed.title,
-      fields: fields.map((f) => ({ feature: f.feature, label: f.label, unit: f.unit, min: f.min, max: f.max, help: f.help })),
+      fields: fields.map((f) => ({ feature: f.feature, label: f.label, unit: f.unit, min: f.min, max: f.max, help: f.help, optional: f.optional === true })),
       clusters: clusters.map((c) => ({ label: c.label, description: c.description, color: c.color })),
       caution: publisherCaution(caution),
       theme: embed.theme,

@@ -6,7 +6,7 @@ import { compile, type TopLevelSpec } from 'vega-lite';
  * the server, so the calculator ships only vega's runtime (loaded when the first
  * answer arrives) and never the vega-lite compiler. Rows arrive in the dataset
  * `memberships` as { label, probability, text }, text being the percentage as the
- * calculator writes it elsewhere (components/embed/percent.ts).
+ * calculator writes it elsewhere (formatProbability in lib/format.ts).
  */
 export interface ChartCluster {
   label: string;

@@ -1,5 +1,15 @@
 import { createHash } from 'node:crypto';
-import { MixtureError, parseModelJson, type MixtureModel as EngineModel } from '@/lib/mixture';
+import {
+  decodeTypicalitySample,
+  encodeTypicalitySample,
+  MAX_MASK_FIELDS,
+  MixtureError,
+  parseModelJson,
+  typicalitySample,
+  type MixtureModel as EngineModel,
+  type TypicalitySample,
+  type TypicalitySampleJson,
+} from '@/lib/mixture';
 import { AppError, type FieldIssue } from '@/lib/errors';
 import type { ClusterLabel, FieldSetting } from '@/models';
 
@@ -13,7 +23,19 @@ export type VersionPayload = {
   clusters: ClusterLabel[];
   fields: FieldSetting[];
   caution: string;
+  /**
+   * Draws from the fitted mixture, made when the version was published, against which a
+   * partial answer's typicality is measured (see typicalitySampleFor). Versions published
+   * before blank fields existed have none; they use the engine's default sample.
+   */
+  typicalitySample?: TypicalitySampleJson;
 };
+
+/** The sample stored with a new version; null for models too wide for blank fields. */
+export function typicalitySampleFor(engine: EngineModel): TypicalitySampleJson | null {
+  if (engine.features.length > MAX_MASK_FIELDS) return null;
+  return encodeTypicalitySample(typicalitySample(engine));
+}
 
 /** JSON with object keys sorted at every level: the same payload always hashes the same. */
 export function canonicalJson(value: unknown): string {
@@ -74,7 +96,17 @@ export function validatePayload(payload: VersionPayload): EngineModel {
       if (typeof f?.unit !== 'string' || f.unit.length > 24) issues.push({ field: `fields.${j}.unit`, message: `The unit of "${name}" must be at most 24 characters.` });
       if (typeof f?.help !== 'string' || f.help.length > 400) issues.push({ field: `fields.${j}.help`, message: `The help text of "${name}" must be at most 400 characters.` });
       if (!Number.isFinite(f?.min) || !Number.isFinite(f?.max) || !(f.min < f.max)) issues.push({ field: `fields.${j}.min`, message: `The input range of "${name}" needs a finite minimum below its maximum.` });
+      if (f?.optional !== undefined && typeof f.optional !== 'boolean') issues.push({ field: `fields.${j}.optional`, message: `Say whether "${name}" may be left blank (true or false).` });
+      else if (f?.optional && features.length > MAX_MASK_FIELDS) issues.push({ field: `fields.${j}.optional`, message: `Fields may be left blank only in models of up to ${MAX_MASK_FIELDS} fields; make "${name}" required.` });
     });
+  }
+  if (payload.typicalitySample !== undefined) {
+    try {
+      decodeTypicalitySample(payload.typicalitySample, features.length);
+    } catch (e) {
+      if (!(e instanceof MixtureError)) throw e;
+      issues.push({ field: 'typicalitySample', message: e.message });
+    }
   }
   if (typeof payload.caution !== 'string' || payload.caution.length > 2000) issues.push({ field: 'caution', message: 'The caution text must be at most 2000 characters.' });
   if (issues.length) throw new AppError('invalid_input', `This model is not ready to publish: ${issues.map((i) => i.message).join(' ')}`, { issues });
@@ -88,7 +120,10 @@ type StoredVersion = { id: number; payload: unknown; checksum: string };
  * A checksum that does not match means the row was changed or damaged after publishing;
  * a model the engine cannot read would fail every answer.
  */
-function inspectStoredVersion(version: StoredVersion): { payload: VersionPayload; engine: EngineModel } | { problem: string } {
+/** A stored version as the scorer uses it: the payload, the engine model and the decoded sample (null = engine default). */
+export type ReadVersion = { payload: VersionPayload; engine: EngineModel; sample: TypicalitySample | null };
+
+function inspectStoredVersion(version: StoredVersion): ReadVersion | { problem: string } {
   let payload: VersionPayload;
   try {
     payload = (typeof version.payload === 'string' ? JSON.parse(version.payload) : version.payload) as VersionPayload;
@@ -97,10 +132,17 @@ function inspectStoredVersion(version: StoredVersion): { payload: VersionPayload
   }
   if (!payload || typeof payload !== 'object') return { problem: 'its stored content is missing' };
   if (payloadChecksum(payload) !== version.checksum) return { problem: 'its stored content no longer matches the checksum it was published with' };
+  let engine: EngineModel;
   try {
-    return { payload, engine: parseModelJson(payload.model) };
+    engine = parseModelJson(payload.model);
   } catch (e) {
     return { problem: `its model cannot be read (${e instanceof MixtureError ? e.message : 'unexpected shape'})` };
+  }
+  if (payload.typicalitySample === undefined) return { payload, engine, sample: null };
+  try {
+    return { payload, engine, sample: decodeTypicalitySample(payload.typicalitySample, engine.features.length) };
+  } catch (e) {
+    return { problem: `its typicality sample cannot be read (${e instanceof MixtureError ? e.message : 'unexpected shape'})` };
   }
 }
 
@@ -110,7 +152,7 @@ export function storedPayloadProblem(version: StoredVersion): string | null {
 }
 
 /** Read a stored version back, with its engine model; a damaged one is refused (and logged) rather than scored. */
-export function readStoredVersion(version: StoredVersion): { payload: VersionPayload; engine: EngineModel } {
+export function readStoredVersion(version: StoredVersion): ReadVersion {
   const inspected = inspectStoredVersion(version);
   if ('problem' in inspected) {
     console.error(`[partwise] model version ${version.id} is damaged (${inspected.problem}); refusing to serve it.`);

@@ -8,7 +8,7 @@ import { Embed, MixtureModel, ModelVersion, sequelize, type User, type Workspace
 import { assertCanPublish } from '@/lib/billing/limits';
 import { accentProblem, DEFAULT_ACCENT, isHexColour } from './contrast';
 import { allowedOriginsSchema } from './origins';
-import { payloadChecksum, storedPayloadProblem, validatePayload, type VersionPayload } from './payload';
+import { payloadChecksum, storedPayloadProblem, typicalitySampleFor, validatePayload, type VersionPayload } from './payload';
 
 /**
  * Publishing and managing calculators. Each function takes the acting user and their
@@ -60,11 +60,17 @@ function snapshot(model: MixtureModel): VersionPayload {
   return { model: model.model, clusters: model.clusters, fields: model.fields, caution: model.caution ?? '' };
 }
 
+/** The snapshot, checked, with the typicality sample drawn from its model (covered by the checksum like the rest). */
+function publishablePayload(model: MixtureModel): VersionPayload {
+  const payload = snapshot(model);
+  const sample = typicalitySampleFor(validatePayload(payload));
+  return sample ? { ...payload, typicalitySample: sample } : payload;
+}
+
 /** A new calculator with its first version, serving it at once. */
 export async function publishNew(acting: Acting, input: z.infer<typeof publishSchema>): Promise<{ embed: Embed; version: ModelVersion }> {
   const model = await findModel(acting, input.mixtureModelId);
-  const payload = snapshot(model);
-  validatePayload(payload);
+  const payload = publishablePayload(model);
   const checksum = payloadChecksum(payload);
   // Early refusal without the write lock; the check that holds is the one inside.
   await assertCanPublish(acting.workspace.id);
@@ -94,8 +100,7 @@ export async function publishVersion(acting: Acting, embedId: number, opts: { mi
   const modelId = opts.mixtureModelId ?? embed.mixtureModelId;
   if (!modelId) throw new AppError('conflict', 'This calculator has no model to publish from; choose one.');
   const model = await findModel(acting, modelId);
-  const payload = snapshot(model);
-  validatePayload(payload);
+  const payload = publishablePayload(model);
   const checksum = payloadChecksum(payload);
   const version = await sequelize.transaction(async (transaction) => {
     const last = (await ModelVersion.max('number', { where: { embedId: embed.id }, transaction })) as number | null;

@@ -10,6 +10,7 @@
  * the same loop on another machine; the in-process state below is only which jobs
  * this process is running (safe to lose).
  */
+import { formatCount } from '@/lib/format';
 import os from 'node:os';
 import path from 'node:path';
 import { Worker } from 'node:worker_threads';
@@ -104,7 +105,7 @@ export interface FitCheckpoint {
   elapsedMs: number;
 }
 
-const fmt = (n: number) => n.toLocaleString('en-US');
+const fmt = formatCount;
 
 /**
  * Fit creations of this process take turns for their cap transaction. Each Sequelize

@@ -58,6 +58,7 @@ export async function createModelFromFit(workspaceId: number, userId: number, in
       min: col?.inputMin ?? range.min ?? f.min,
       max: col?.inputMax ?? range.max ?? f.max,
       help: '',
+      optional: false,
     };
   });
   return MixtureModel.create({
@@ -87,6 +88,8 @@ const fieldSchema = z
     min: z.number({ error: 'Enter a number, like 12 or 12.5.' }).finite('Enter a number, like 12 or 12.5.'),
     max: z.number({ error: 'Enter a number, like 12 or 12.5.' }).finite('Enter a number, like 12 or 12.5.'),
     help: storedText('The help text').trim().max(300, 'Keep the help text under 300 characters.'),
+    /** Visitors may leave it blank; absent = required, as for calculators set up before blank fields. */
+    optional: z.boolean({ error: 'Choose whether visitors must fill in this field.' }).default(false),
   })
   .refine((f) => f.min < f.max, { message: 'The lowest accepted value must be below the highest.', path: ['max'] });
 

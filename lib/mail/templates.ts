@@ -1,3 +1,4 @@
+import { formatCount } from '@/lib/format';
 import type { OutgoingMail } from './index';
 
 /**
@@ -85,7 +86,7 @@ export function invitationMail(opts: { email: string; workspaceName: string; inv
 
 /** Fair use of scoring: a calculator reached one of its plan's burst limits (sent once per calculator per hour). */
 export function calculatorBurstMail(opts: { email: string; workspaceName: string; calculatorTitle: string; embedId: number; planName: string; answers: number; windowText: string; link: string }): OutgoingMail {
-  const lead = `Your calculator “${opts.calculatorTitle}” in ${opts.workspaceName} was asked for more answers than the ${opts.planName} plan allows one calculator in ${opts.windowText} (${opts.answers.toLocaleString('en-US')}).`;
+  const lead = `Your calculator “${opts.calculatorTitle}” in ${opts.workspaceName} was asked for more answers than the ${opts.planName} plan allows one calculator in ${opts.windowText} (${formatCount(opts.answers)}).`;
   const what = 'We turned away the extra requests with a neutral “busy, try again shortly” notice, so they did not use up your monthly answers. The calculator keeps answering as soon as the rate falls; other visitors only had to wait a little.';
   const check = 'If you expected a rush (a newsletter, a class, an event), nothing needs doing. If not, someone may be sending requests automatically: you can rotate the calculator’s address in Partwise Studio (the old address stops answering) and share the new one.';
   return {
@@ -99,7 +100,7 @@ export function calculatorBurstMail(opts: { email: string; workspaceName: string
 
 /** Fair use of scoring: the workspace's answers reached the pause line, calculators now pause until next month or an upgrade. */
 export function answersPausedMail(opts: { email: string; workspaceName: string; planName: string; pauseAt: number; period: string; link: string }): OutgoingMail {
-  const lead = `The calculators of ${opts.workspaceName} have given ${opts.pauseAt.toLocaleString('en-US')} answers in ${opts.period}: the ${opts.planName} plan’s monthly answers and the short grace after them.`;
+  const lead = `The calculators of ${opts.workspaceName} have given ${formatCount(opts.pauseAt)} answers in ${opts.period}: the ${opts.planName} plan’s monthly answers and the short grace after them.`;
   const what = 'They now show visitors a neutral “taking a short break” notice instead of answering. They answer again on the first of next month, or at once after an upgrade.';
   return {
     to: opts.email,

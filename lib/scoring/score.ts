@@ -1,5 +1,5 @@
 import { z } from 'zod';
-import { scoreRow } from '@/lib/mixture';
+import { MAX_MASK_FIELDS, MixtureError, scoreRow, scoreRowPartial, type DistanceBand, type PartialRowScore } from '@/lib/mixture';
 import { clientAddress } from '@/lib/audit';
 import { callerOrigin } from '@/lib/embeds/origins';
 import { AppError } from '@/lib/errors';
@@ -10,7 +10,7 @@ import { recordAnswer } from '@/lib/usage';
 import { noteBurst, notePaused } from './alerts';
 import { readyLedger, releaseAnswer, reserveAnswer, waitForLedger } from './allowance';
 import { scoringSettings } from './limits';
-import { isServing, loadServedEmbed, loadServedVersion, parseValues, type ServedEmbed } from './served';
+import { isServing, loadServedEmbed, loadServedVersion, parseValues, type ServedEmbed, type ServedVersion } from './served';
 
 /** A scored answer as the calculator (and any allowed host page) receives it. */
 export interface ScoreAnswer {
@@ -21,6 +21,28 @@ export interface ScoreAnswer {
   typicality: number;
   unusual: boolean;
   threshold: number;
+  /** The fields the answer was worked out from, in the model's order (the marginal over them). */
+  used: string[];
+  /** The fields left blank, in the model's order. */
+  unused: string[];
+  /** Why the best group and not the runner-up; null when the model has one group. */
+  reason: AnswerReason | null;
+}
+
+/**
+ * The log-odds of the best group against the runner-up over the used fields, split
+ * additively: weightTerm + Σ fields[].contribution = logOdds (see lib/mixture/README.md,
+ * "A reason with every answer"). z is the field's distance from the best group's centre
+ * in that group's standard deviations; position is z in five bands.
+ */
+export interface AnswerReason {
+  best: number;
+  runnerUp: number;
+  logOdds: number;
+  weightTerm: number;
+  /** 'per-field' (diagonal, spherical: order-free) or 'chain-rule' (full, tied: each field given the earlier ones, model order) */
+  decomposition: 'per-field' | 'chain-rule';
+  fields: { feature: string; contribution: number; z: number; position: DistanceBand }[];
 }
 
 /** Scoring bodies are a few numbers; anything bigger is refused before parsing. */
@@ -156,18 +178,20 @@ export async function scoreForToken(token: string, call: ScoreCall): Promise<{ a
     throw calculatorBusy(taken.retryAfterSeconds);
   }
   if (!reserveAnswer(ledger)) throw paused();
-  let score: ReturnType<typeof scoreRow>;
+  let score: PartialRowScore;
   try {
-    const row = version.payload.fields.map((f) => values[f.feature]);
-    score = scoreRow(version.engine, row, { unusualBelow: embed.typicalityThreshold });
+    score = scoreValues(version, values, embed.typicalityThreshold);
   } catch (error) {
     releaseAnswer(ledger);
+    // parseValues has already refused what the engine would (blank required fields, no value at all).
+    if (error instanceof MixtureError) throw new AppError('invalid_input', error.message, { issues: [{ field: 'values', message: error.message }] });
     throw error;
   }
   recordAnswer(embed);
   if (ledger.used >= ledger.pauseAt) notePaused(ledger);
 
   const clusters = version.payload.clusters;
+  const fieldNames = fieldLists(version, score.mask);
   const answer: ScoreAnswer = {
     version: version.number,
     probabilities: score.probabilities.map((p, i) => ({ index: i, label: clusters[i].label, color: clusters[i].color, probability: p })),
@@ -176,6 +200,53 @@ export async function scoreForToken(token: string, call: ScoreCall): Promise<{ a
     typicality: score.typicality,
     unusual: score.unusual,
     threshold: embed.typicalityThreshold,
+    used: fieldNames.used,
+    unused: fieldNames.unused,
+    reason: answerReason(version, score),
   };
   return { answer, embed };
+}
+
+/**
+ * The engine's answer for a validated row: the marginal over the observed fields, with
+ * the breakdown. A version's stored sample measures typicality of partial rows (the
+ * engine's default sample for versions published before samples were stored).
+ */
+function scoreValues(version: ServedVersion, row: (number | null)[], unusualBelow: number): PartialRowScore {
+  if (version.engine.features.length > MAX_MASK_FIELDS) {
+    // Too wide for blank fields (publishing refuses optional fields there), so every field is given.
+    const full = scoreRow(version.engine, row as number[], { unusualBelow });
+    return { ...full, typicalityReference: 'training', used: row.map(() => true), mask: ALL_FIELDS, complete: true };
+  }
+  return scoreRowPartial(version.engine, row, { unusualBelow, sample: version.sample ?? undefined, explain: true });
+}
+
+/** Stands for "every field" where a model is too wide for a 32-bit mask. */
+const ALL_FIELDS = -1;
+
+type FieldLists = { used: string[]; unused: string[] };
+// Per version and mask: a calculator sees few masks, and the lists are only ever serialised.
+const fieldListCache = new WeakMap<ServedVersion, Map<number, FieldLists>>();
+
+function fieldLists(version: ServedVersion, mask: number): FieldLists {
+  let byMask = fieldListCache.get(version);
+  if (!byMask) fieldListCache.set(version, (byMask = new Map()));
+  let hit = byMask.get(mask);
+  if (!hit) {
+    const fields = version.payload.fields;
+    const used = fields.filter((_, j) => mask === ALL_FIELDS || ((mask >>> j) & 1) === 1).map((f) => f.feature);
+    hit = { used, unused: fields.filter((f) => !used.includes(f.feature)).map((f) => f.feature) };
+    if (byMask.size < 256) byMask.set(mask, hit);
+  }
+  return hit;
+}
+
+function answerReason(version: ServedVersion, score: PartialRowScore): AnswerReason | null {
+  const r = score.reason;
+  if (!r || r.runnerUp === null || r.logOdds === null || r.weightTerm === null) return null;
+  const fields: AnswerReason['fields'] = [];
+  for (const f of r.fields) {
+    if (f.used && f.contribution !== null && f.z !== null && f.band !== null) fields.push({ feature: version.payload.fields[f.field].feature, contribution: f.contribution, z: f.z, position: f.band });
+  }
+  return { best: r.best, runnerUp: r.runnerUp, logOdds: r.logOdds, weightTerm: r.weightTerm, decomposition: r.decomposition, fields };
 }

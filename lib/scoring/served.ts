@@ -1,5 +1,4 @@
-import { z } from 'zod';
-import type { MixtureModel as EngineModel } from '@/lib/mixture';
+import type { MixtureModel as EngineModel, TypicalitySample } from '@/lib/mixture';
 import { readStoredVersion, type VersionPayload } from '@/lib/embeds/payload';
 import { AppError, type FieldIssue } from '@/lib/errors';
 import { Embed, ModelVersion, Workspace, type FieldSetting } from '@/models';
@@ -33,7 +32,10 @@ export interface ServedVersion {
   number: number;
   payload: VersionPayload;
   engine: EngineModel;
-  valuesSchema: z.ZodType<Record<string, number>>;
+  /** The version's stored typicality sample, decoded once; null = published before samples (the engine's default sample is used). */
+  sample: TypicalitySample | null;
+  /** Field position by feature name, so validating values builds nothing per request. */
+  fieldIndex: Map<string, number>;
 }
 
 interface ScoringCaches {
@@ -110,8 +112,8 @@ export async function loadServedVersion(versionId: number): Promise<ServedVersio
   if (hit) return hit;
   const row = await ModelVersion.findByPk(versionId);
   if (!row) throw new AppError('unavailable', 'This calculator is temporarily unavailable.');
-  const { payload, engine } = readStoredVersion(row);
-  const served: ServedVersion = { id: row.id, number: row.number, payload, engine, valuesSchema: valuesSchema(payload.fields) };
+  const { payload, engine, sample } = readStoredVersion(row);
+  const served: ServedVersion = { id: row.id, number: row.number, payload, engine, sample, fieldIndex: new Map(payload.fields.map((f, j) => [f.feature, j])) };
   if (caches.versions.size >= MAX_VERSIONS) caches.versions.delete(caches.versions.keys().next().value as number);
   caches.versions.set(versionId, served);
   return served;
@@ -121,35 +123,51 @@ function rangeText(f: FieldSetting): string {
   return `between ${f.min} and ${f.max}${f.unit ? ` ${f.unit}` : ''}`;
 }
 
-/** The zod schema of one calculator's values: every field, a finite number in its range, nothing else. */
-export function valuesSchema(fields: FieldSetting[]): z.ZodType<Record<string, number>> {
-  const shape: Record<string, z.ZodType<number>> = {};
-  for (const f of fields) {
-    const name = f.label || f.feature;
-    shape[f.feature] = z
-      .number({ error: (iss) => (iss.input === undefined ? `Enter ${name}.` : `${name} must be a number.`) })
-      .refine(Number.isFinite, { message: `${name} must be a finite number.`, abort: true })
-      .refine((v) => v >= f.min && v <= f.max, { message: `${name} must be ${rangeText(f)}.` });
-  }
-  return z.strictObject(shape) as unknown as z.ZodType<Record<string, number>>;
+/** A visitor's value for one field: a number, or null when it was left blank. */
+export type FieldValue = number | null;
+
+/** What is wrong with one field's value, or null when it is fine (blank is fine for an optional field). */
+function fieldProblem(f: FieldSetting, v: unknown): string | null {
+  const name = f.label || f.feature;
+  if (v === null || v === undefined) return f.optional ? null : `${name} is needed for this calculator.`;
+  if (typeof v !== 'number') return `${name} must be a number.`;
+  if (!Number.isFinite(v)) return `${name} must be a finite number.`;
+  if (v < f.min || v > f.max) return `${name} must be ${rangeText(f)}.`;
+  return null;
 }
 
-/** Validate `values` against a version's fields, with one message per field. */
-export function parseValues(version: ServedVersion, values: unknown): Record<string, number> {
+const NOT_AN_OBJECT = 'Send the values as an object of field names and numbers.';
+const NOTHING_GIVEN = 'Enter at least one value to get an answer.';
+
+/**
+ * Validate `values` against a version's fields, with one message per field, and return
+ * them as the row the engine scores (the model's field order, null = not observed). A
+ * field left out or sent as null is blank: fine when the publisher made it optional, a
+ * 422 naming it when required; a row with no value at all is a 422 too.
+ */
+export function parseValues(version: ServedVersion, values: unknown): FieldValue[] {
   if (!values || typeof values !== 'object' || Array.isArray(values)) {
-    throw new AppError('invalid_input', 'Send the values as an object of field names and numbers.', { issues: [{ field: 'values', message: 'Send the values as an object of field names and numbers.' }] });
+    throw new AppError('invalid_input', NOT_AN_OBJECT, { issues: [{ field: 'values', message: NOT_AN_OBJECT }] });
   }
-  const result = version.valuesSchema.safeParse(values);
-  if (result.success) return result.data;
-  const issues: FieldIssue[] = [];
-  for (const issue of result.error.issues) {
-    if (issue.code === 'unrecognized_keys') {
-      for (const key of issue.keys) issues.push({ field: `values.${key}`, message: `"${key.slice(0, 60)}" is not a field of this calculator.` });
-    } else {
-      issues.push({ field: ['values', ...issue.path.map(String)].join('.'), message: issue.message });
-    }
+  const given = values as Record<string, unknown>;
+  const fields = version.payload.fields;
+  const row: FieldValue[] = new Array(fields.length);
+  let issues: FieldIssue[] | null = null;
+  let observed = 0;
+  for (let j = 0; j < fields.length; j++) {
+    const f = fields[j];
+    const v = Object.hasOwn(given, f.feature) ? given[f.feature] : undefined;
+    const problem = fieldProblem(f, v);
+    if (problem) (issues ??= []).push({ field: `values.${f.feature}`, message: problem });
+    row[j] = typeof v === 'number' ? v : null;
+    if (row[j] !== null) observed++;
   }
-  throw new AppError('invalid_input', issues.map((i) => i.message).join(' '), { issues });
+  for (const key in given) {
+    if (Object.hasOwn(given, key) && !version.fieldIndex.has(key)) (issues ??= []).push({ field: `values.${key}`, message: `"${key.slice(0, 60)}" is not a field of this calculator.` });
+  }
+  if (issues) throw new AppError('invalid_input', issues.map((i) => i.message).join(' '), { issues });
+  if (observed === 0) throw new AppError('invalid_input', NOTHING_GIVEN, { issues: [{ field: 'values', message: NOTHING_GIVEN }] });
+  return row;
 }
 
 /** Test hook: start with empty caches. */

@@ -3,6 +3,8 @@
  * words for the detail fields (never raw keys). Pure, so the support pages and tests
  * share it. Actions not listed still show, by their code.
  */
+import { formatCount } from '@/lib/format';
+
 export const ACTION_LABELS: Record<string, string> = {
   'support.embed_disabled': 'Switched off by support',
   'support.embed_enabled': 'Switched back on by support',
@@ -92,7 +94,7 @@ function valueWords(key: string, value: unknown): string {
       .join('; ');
   }
   if (Array.isArray(value)) return value.length ? value.map((v) => valueWords('', v)).join(', ') : 'none';
-  if (typeof value === 'number') return value.toLocaleString('en-GB');
+  if (typeof value === 'number') return Number.isInteger(value) ? formatCount(value) : String(value);
   if (typeof value === 'boolean') return value ? 'yes' : 'no';
   if (value === null || value === undefined || value === '') return '—';
   if (typeof value === 'object') return Object.entries(value as Record<string, unknown>).map(([k, v]) => `${k} ${valueWords('', v)}`).join(', ');

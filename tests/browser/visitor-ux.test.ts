@@ -4,7 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Frame, Page } from 'playwright-core';
 import { appUrl, launchBrowser, screenshot } from '../helpers/browser';
 import { modelWorkspace } from '../integration/embeds/fixtures';
-import { formatPercent } from '@/components/embed/percent';
+import { formatProbability as formatPercent } from '@/lib/format';
 import { READY_TIMEOUT_MS } from '@/embed/protocol';
 
 /**

@@ -41,7 +41,7 @@ interface Sent {
 
 interface Answer {
   status: number;
-  body: { error?: { code: string; message: string; issues?: { field: string; message: string }[] }; probabilities?: unknown };
+  body: { error?: { code: string; message: string; issues?: { field: string; message: string }[] }; probabilities?: unknown; used?: string[]; unused?: string[] };
   headers: Headers;
 }
 
@@ -64,7 +64,12 @@ const cases: { name: string; sent: Sent; status: number }[] = [
   { name: 'token longer than 64 characters', sent: { path: `/api/score/${'a'.repeat(65)}` }, status: 422 },
   { name: 'wrong content type', sent: { headers: { 'content-type': 'text/plain' } }, status: 415 },
   { name: 'malformed JSON', sent: { body: '{"values": {' }, status: 400 },
-  { name: 'missing field', sent: { body: JSON.stringify({ values: { avg_speed_kmh: 24.5, weekly_distance_km: 130 } }) }, status: 422 },
+  // The seeded demo calculator makes climbing per ride optional (lib/demo/model.ts); the others are required.
+  { name: 'missing required field', sent: { body: JSON.stringify({ values: { weekly_distance_km: 130, climb_per_ride_m: 420 } }) }, status: 422 },
+  { name: 'required field sent as null', sent: { body: JSON.stringify({ values: { ...good, avg_speed_kmh: null } }) }, status: 422 },
+  { name: 'optional field left out', sent: { body: JSON.stringify({ values: { avg_speed_kmh: 24.5, weekly_distance_km: 130 } }) }, status: 200 },
+  { name: 'optional field sent as null', sent: { body: JSON.stringify({ values: { ...good, climb_per_ride_m: null } }) }, status: 200 },
+  { name: 'no value at all', sent: { body: JSON.stringify({ values: {} }) }, status: 422 },
   { name: 'extra field', sent: { body: JSON.stringify({ values: { ...good, heart_rate: 150 } }) }, status: 422 },
   { name: 'extra top-level key', sent: { body: JSON.stringify({ values: good, admin: true }) }, status: 422 },
   { name: 'out of range', sent: { body: JSON.stringify({ values: { ...good, avg_speed_kmh: 400 } }) }, status: 422 },
@@ -83,6 +88,11 @@ describe('the scoring route over HTTP', () => {
     expect(route.status).toBe(status);
     if (status === 200) {
       expect(fast.body).toEqual(route.body);
+      // Every answer carries what it used and why (the demo model has several groups).
+      const body = fast.body as { used?: string[]; unused?: string[]; reason?: { logOdds: number; weightTerm: number; fields: { contribution: number }[] } };
+      expect([...body.used!, ...body.unused!].sort()).toEqual(Object.keys(good).sort());
+      expect(body.reason!.fields.length).toBe(body.used!.length);
+      expect(Math.abs(body.reason!.weightTerm + body.reason!.fields.reduce((a, f) => a + f.contribution, 0) - body.reason!.logOdds)).toBeLessThan(1e-9);
     } else {
       expect(fast.body.error).toEqual(route.body.error);
       expect(fast.body.error?.message.length).toBeGreaterThan(10);

@@ -12,7 +12,7 @@ import { SelfServiceButton } from '@/components/billing/SelfServiceButton';
 import { UsageMeters } from '@/components/billing/UsageMeters';
 import { ScoringAlerts } from '@/components/billing/ScoringAlerts';
 import { PAUSE_ALERT_THRESHOLD, recentScoringAlerts } from '@/lib/scoring/alerts';
-import { day, euros } from '@/components/billing/format';
+import { formatDate as day, formatMoney as euros } from '@/lib/format';
 
 export const metadata: Metadata = { title: 'Billing' };
 export const dynamic = 'force-dynamic';

@@ -79,7 +79,7 @@ describe('scoring a visitor\'s values', () => {
     const byField = Object.fromEntries(issues.map((i) => [i.field, i.message]));
     expect(byField['values.avg_speed_kmh']).toBe('Average speed must be between 10 and 45 km/h.');
     expect(byField['values.weekly_distance_km']).toBe('Weekly distance must be a number.');
-    expect(byField['values.climb_per_ride_m']).toBe('Enter Climbing per ride.');
+    expect(byField['values.climb_per_ride_m']).toBe('Climbing per ride is needed for this calculator.');
     expect(byField['values.surprise']).toMatch(/not a field/);
 
     expect((await post({ values: { ...good, avg_speed_kmh: -3 } })).status).toBe(422);

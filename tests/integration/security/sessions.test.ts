@@ -131,10 +131,10 @@ describe('a cookie of an older session generation', () => {
   });
 
   it('is refused after a staff account gets a new password from the command line (staff:add)', async () => {
-    const { user } = await addStaff('desk@sessions.test', { password: 'first-desk-password-2026' });
+    const { user } = await addStaff('desk@sessions.test', { password: 'lantern-harbour-cobalt-2026' });
     const before = await sessionCookie(user.id);
     expect(await pageOutcome(before, 'staff')).toBe('page');
-    await addStaff('desk@sessions.test', { password: 'second-desk-password-2026' });
+    await addStaff('desk@sessions.test', { password: 'quiet-meadow-violet-2026' });
     expect(await accountStatus(before)).toBe(401);
     expect(await pageOutcome(before, 'staff')).toBe('/signin?callbackUrl=%2Fsupport');
   });

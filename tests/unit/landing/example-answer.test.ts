@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { formatPercent } from '@/components/embed/percent';
+import { formatProbability as formatPercent } from '@/lib/format';
 import { chooseExample, roundStep } from '@/lib/demo/example-answer';
 import { demoRidesCsv } from '@/lib/demo/cycling';
 import { buildModel, parseNumericTable, scoreRow, selectMixture } from '@/lib/mixture';

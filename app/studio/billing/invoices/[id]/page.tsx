@@ -6,7 +6,7 @@ import { findInvoice } from '@/lib/billing/summary';
 import { AppError } from '@/lib/errors';
 import { OwnerOnly } from '@/components/billing/OwnerOnly';
 import { PrintButton } from '@/components/billing/PrintButton';
-import { day, euros } from '@/components/billing/format';
+import { formatDate as day, formatMoney as euros } from '@/lib/format';
 
 export const metadata: Metadata = { title: 'Invoice' };
 export const dynamic = 'force-dynamic';
