@@ -27,6 +27,8 @@ export type ErrorCode = keyof typeof ERROR_STATUS;
 export interface FieldIssue {
   field: string;
   message: string;
+  /** A value that would be accepted, when there is an obvious one (a form may offer it). */
+  suggestion?: string;
 }
 
 export class AppError extends Error {

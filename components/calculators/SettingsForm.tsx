@@ -29,7 +29,9 @@ export function SettingsForm({ embedId, initial, disabled }: { embedId: number; 
   const router = useRouter();
   const [notice, setNotice] = useState<string | null>(null);
   const [saved, setSaved] = useState<string | null>(null);
-  const { register, handleSubmit, setError, setValue, formState } = useForm<Values>({
+  // The nearest readable accent the server proposed when it refused the chosen one.
+  const [accentSuggestion, setAccentSuggestion] = useState<string | null>(null);
+  const { register, handleSubmit, setError, setValue, clearErrors, formState } = useForm<Values>({
     defaultValues: { title: initial.title, origins: initial.allowedOrigins.join('\n'), theme: initial.theme, accent: initial.accentColor, threshold: String(initial.typicalityThreshold) },
   });
   const errors = formState.errors;
@@ -37,6 +39,7 @@ export function SettingsForm({ embedId, initial, disabled }: { embedId: number; 
   const submit = handleSubmit(async (values) => {
     setSaved(null);
     setNotice(null);
+    setAccentSuggestion(null);
     const lines = originLines(values.origins);
     const result = await callApi<{ embed: Settings }>(`/api/embeds/${embedId}`, 'PATCH', {
       title: values.title,
@@ -46,6 +49,7 @@ export function SettingsForm({ embedId, initial, disabled }: { embedId: number; 
       typicalityThreshold: parseTypedNumber(values.threshold) ?? -1,
     });
     if (!result.ok) {
+      setAccentSuggestion(result.error.issues.find((i) => i.field === 'accentColor' && i.suggestion)?.suggestion ?? null);
       const rest = placeServerIssues(setError, result.error.issues, (field, message) => {
         const line = /^allowedOrigins\.(\d+)$/.exec(field);
         // Point origin issues at the line the person typed, in words: 'Line 2: "…" must start with https://'.
@@ -102,8 +106,35 @@ export function SettingsForm({ embedId, initial, disabled }: { embedId: number; 
           </div>
           <div>
             <label htmlFor="s-accent" className="pw-label">Accent colour</label>
-            <input id="s-accent" type="color" className="h-11 w-full cursor-pointer rounded-lg border border-ink/15 bg-white p-1" {...register('accent')} />
-            {errors.accent && <p className="pw-field-error">{errors.accent.message}</p>}
+            <input
+              id="s-accent"
+              type="color"
+              className="h-11 w-full cursor-pointer rounded-lg border border-ink/50 bg-white p-1"
+              aria-invalid={errors.accent ? true : undefined}
+              aria-describedby={errors.accent ? 's-accent-error' : undefined}
+              {...register('accent')}
+            />
+            {errors.accent && (
+              <p id="s-accent-error" className="pw-field-error" data-testid="accent-error">
+                {errors.accent.message}
+              </p>
+            )}
+            {errors.accent && accentSuggestion && (
+              <button
+                type="button"
+                className="pw-button-quiet mt-2"
+                onClick={() => {
+                  setValue('accent', accentSuggestion, { shouldDirty: true });
+                  clearErrors('accent');
+                  setAccentSuggestion(null);
+                  setNotice(null);
+                  document.getElementById('s-accent')?.focus();
+                }}
+              >
+                <span aria-hidden="true" className="inline-block h-4 w-4 rounded-sm ring-1 ring-ink/30" style={{ backgroundColor: accentSuggestion }} />
+                Use {accentSuggestion}
+              </button>
+            )}
           </div>
           <div>
             <label htmlFor="s-threshold" className="pw-label">&ldquo;Unlike the data&rdquo; below (percentile)</label>

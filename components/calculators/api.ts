@@ -3,7 +3,7 @@
 /** JSON calls from studio calculator components; errors come back as our AppError shape. */
 export interface ApiFailure {
   message: string;
-  issues: { field: string; message: string }[];
+  issues: { field: string; message: string; suggestion?: string }[];
 }
 
 export async function callApi<T>(url: string, method: string, body?: unknown): Promise<{ ok: true; data: T } | { ok: false; error: ApiFailure }> {

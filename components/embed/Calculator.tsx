@@ -174,7 +174,8 @@ export function Calculator(props: CalculatorProps) {
         {fields.map((f) => {
           const id = `${formId}-${f.feature}`;
           const error = errors[f.feature];
-          const described = [f.help ? `${id}-help` : '', `${id}-range`, error ? `${id}-error` : ''].filter(Boolean).join(' ');
+          // The error first, then the hint (the help text sits inside the range line, so it is read once).
+          const described = [error ? `${id}-error` : '', `${id}-range`].filter(Boolean).join(' ');
           return (
             <div key={f.feature}>
               <label htmlFor={id} className="mb-1 block text-sm font-bold text-ink-soft dark:text-[#d5d9e2]">
@@ -207,17 +208,20 @@ export function Calculator(props: CalculatorProps) {
                 onBlur={(e) => {
                   if (e.target.value.trim()) setErrors((errs) => ({ ...errs, [f.feature]: checkField(f, e.target.value) ?? '' }));
                 }}
-                className="block w-full rounded-lg border border-ink/20 bg-white px-3 py-2 text-base text-ink focus:outline-none focus:ring-2 focus:ring-[var(--accent)] aria-[invalid=true]:border-clay-500 dark:border-white/20 dark:bg-[#1c2130] dark:text-[#f3efe7]"
+                className="block w-full rounded-lg border border-ink/50 bg-white px-3 py-2 text-base text-ink focus:outline-none focus:ring-2 focus:ring-[var(--accent)] aria-[invalid=true]:border-clay-500 dark:border-white/45 dark:bg-[#1c2130] dark:text-[#f3efe7] dark:aria-[invalid=true]:border-[#f1a595]"
               />
               <p id={`${id}-range`} className="mt-1 text-xs text-ink-soft dark:text-[#a9b0bf]">
                 {f.help ? <span id={`${id}-help`}>{f.help} </span> : null}
                 Accepted: {rangeText(f)}.{f.optional ? ` ${blankTexts.optionalHint}` : null}
               </p>
-              {error && (
-                <p id={`${id}-error`} className="mt-1 text-sm font-bold text-clay-700 dark:text-[#f1a595]">
-                  {error}
-                </p>
-              )}
+              {/* Always there, so a screen reader speaks an error as it appears (it is also linked to the field). */}
+              <div aria-live="polite" data-testid={`error-region-${f.feature}`}>
+                {error && (
+                  <p id={`${id}-error`} className="mt-1 text-sm font-bold text-clay-700 dark:text-[#f1a595]">
+                    {error}
+                  </p>
+                )}
+              </div>
             </div>
           );
         })}
@@ -239,7 +243,8 @@ export function Calculator(props: CalculatorProps) {
                 You changed your values. The answer below is for the earlier ones; press &ldquo;Show my groups&rdquo; to update it.
               </p>
             )}
-            <div className={`space-y-3 transition-opacity ${stale ? 'opacity-40' : ''}`}>
+            {/* Stale: greyed, yet its text keeps 4.5:1 (a fainter fade would make it unreadable). */}
+            <div className={`space-y-3 transition ${stale ? 'opacity-80 grayscale' : ''}`}>
               {answer.unusual ? (
                 // Values far from all the data: the message leads, the nearest group is only mentioned.
                 <div className="space-y-1 rounded-lg border border-saffron-500/60 bg-saffron-100 px-3 py-2 text-ink" data-testid="unusual-notice">

@@ -6,7 +6,7 @@ export function CalculatorFrame({ theme, accent, accentText, children }: { theme
   const style = { '--accent': accent, '--accent-text': accentText, colorScheme: theme } as CSSProperties;
   return (
     // Tailwind's dark: variants match descendants of .dark, so the class sits one level up.
-    <div className={theme === 'dark' ? 'dark' : undefined} style={style}>
+    <div className={theme === 'dark' ? 'pw-calculator dark' : 'pw-calculator'} style={style}>
       <div className="min-h-screen bg-white dark:bg-dusk-900">
         {/* Measured for the host's iframe height: no min-height here, or it could never shrink. */}
         <main id="partwise-calculator-root" className="px-4 py-5 text-ink dark:text-[#f3efe7] sm:px-6">

@@ -21,7 +21,7 @@ export function StudioHeader(props: { user: { name: string; email: string }; isS
   return (
     <header className="border-b border-ink/10 bg-white/70">
       <div className="mx-auto flex max-w-6xl flex-wrap items-center gap-x-3 gap-y-2 px-4 py-3 sm:gap-x-6 sm:px-6">
-        <Link href="/studio" aria-label="Studio overview" className="shrink-0">
+        <Link href="/studio" aria-label="Partwise studio overview" className="shrink-0">
           <Logo />
         </Link>
         {/* Narrow screens: the workspace gets a line of its own under the logo and menus. */}

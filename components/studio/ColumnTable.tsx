@@ -47,7 +47,7 @@ export function ColumnTable({ columns, rows }: { columns: DatasetColumn[]; rows:
 
 export function PreviewTable({ columns, rows }: { columns: DatasetColumn[]; rows: (number | string | null)[][] }) {
   return (
-    <div className="max-h-96 overflow-auto rounded-lg ring-1 ring-ink/5">
+    <div className="max-h-96 overflow-auto rounded-lg ring-1 ring-ink/5" tabIndex={0} role="region" aria-label="First rows, scrollable">
       <table className="w-full text-left text-xs" aria-label="First rows">
         <thead className="sticky top-0 bg-paper-deep text-ink-soft">
           <tr>

@@ -67,10 +67,10 @@ export function FitForm({ datasetId, columns, defaults, maxComponentsAllowed }: 
         <legend className="pw-label">Features</legend>
         <div className="flex flex-wrap gap-2">
           {numeric.map((c) => (
-            <label key={c.name} className={`cursor-pointer rounded-full px-3 py-1.5 text-sm ring-1 ${features.includes(c.name) ? 'bg-moss-600 font-bold text-white ring-moss-600' : 'bg-white text-ink-soft ring-ink/15'}`}>
+            <label key={c.name} className={`cursor-pointer rounded-full px-3 py-1.5 text-sm ring-1 has-[:focus-visible]:outline has-[:focus-visible]:outline-2 has-[:focus-visible]:outline-offset-2 has-[:focus-visible]:outline-saffron-700 ${features.includes(c.name) ? 'bg-moss-600 font-bold text-white ring-moss-600' : 'bg-white text-ink-soft ring-ink/15'}`}>
               <input type="checkbox" className="sr-only" checked={features.includes(c.name)} onChange={() => setFeatures((f) => toggle(f, c.name))} />
               {c.displayName || c.name}
-              {c.unit ? <span className="opacity-75"> ({c.unit})</span> : null}
+              {c.unit ? <span className="font-normal"> ({c.unit})</span> : null}
             </label>
           ))}
         </div>

@@ -96,7 +96,7 @@ type Candidate = NonNullable<FitJson['result']>['candidates'][number];
 function CandidateTable({ candidates, chosen, onChoose }: { candidates: Candidate[]; chosen: number; onChoose: (i: number) => void }) {
   const best = candidates.find((c) => c.rank === 1);
   return (
-    <div className="mt-6 max-h-96 overflow-auto">
+    <div className="mt-6 max-h-96 overflow-auto" tabIndex={0} role="region" aria-label="Candidates, scrollable">
       <table className="w-full text-left text-sm" aria-label="Candidates">
         <thead className="sticky top-0 border-b border-ink/10 bg-white text-ink-soft">
           <tr>

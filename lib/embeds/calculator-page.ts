@@ -3,6 +3,7 @@ import { AppError } from '@/lib/errors';
 import { DEFAULT_CAUTION } from '@/lib/fitting/models';
 import { isServing, loadServedEmbed, loadServedVersion } from '@/lib/scoring/served';
 import { membershipChartSpec } from './chart-spec';
+import { DEFAULT_ACCENT, isHexColour, labelOn, nearestPassingAccent } from './contrast';
 import { normalizeOrigin } from './origins';
 
 /** Everything the calculator page renders, or why it cannot. */
@@ -26,16 +27,8 @@ export interface CalculatorProps {
   chartSpec: object;
 }
 
-/** Readable text on the accent colour: ink or white, by relative luminance. */
-export function textOn(hex: string): string {
-  const n = Number.parseInt(hex.slice(1), 16);
-  const channel = (c: number) => {
-    const s = c / 255;
-    return s <= 0.03928 ? s / 12.92 : ((s + 0.055) / 1.055) ** 2.4;
-  };
-  const l = 0.2126 * channel((n >> 16) & 255) + 0.7152 * channel((n >> 8) & 255) + 0.0722 * channel(n & 255);
-  return l > 0.4 ? '#1d2330' : '#ffffff';
-}
+/** Readable text on the accent colour: ink or white, whichever contrasts more (WCAG 2.1 ratio). */
+export const textOn = labelOn;
 
 export async function loadCalculatorView(token: string, host: string | undefined): Promise<CalculatorView> {
   const embed = await loadServedEmbed(token);
@@ -51,7 +44,8 @@ export async function loadCalculatorView(token: string, host: string | undefined
     if (e instanceof AppError) return unavailable;
     throw e;
   }
-  const accent = /^#[0-9a-fA-F]{6}$/.test(embed.accentColor) ? embed.accentColor : '#2f6f5e';
+  // Saving refuses a colour that is hard to see; one saved before that rule is shown as its nearest passing colour.
+  const accent = nearestPassingAccent(isHexColour(embed.accentColor) ? embed.accentColor : DEFAULT_ACCENT, embed.theme);
   const { fields, clusters, caution } = version.payload;
   return {
     state: 'ready',

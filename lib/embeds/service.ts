@@ -6,6 +6,7 @@ import { AppError } from '@/lib/errors';
 import { invalidateEmbed } from '@/lib/scoring/served';
 import { Embed, MixtureModel, ModelVersion, sequelize, type User, type Workspace } from '@/models';
 import { assertCanPublish } from '@/lib/billing/limits';
+import { accentProblem, DEFAULT_ACCENT, isHexColour } from './contrast';
 import { allowedOriginsSchema } from './origins';
 import { payloadChecksum, storedPayloadProblem, typicalitySampleFor, validatePayload, type VersionPayload } from './payload';
 
@@ -156,6 +157,7 @@ export async function updateSettings(acting: Acting, embedId: number, settings: 
   const embed = await findEmbed(acting, embedId);
   if (embed.status === 'retired') throw new AppError('conflict', 'This calculator is retired.');
   const before = { title: embed.title, allowedOrigins: [...embed.allowedOrigins], theme: embed.theme, accentColor: embed.accentColor, typicalityThreshold: embed.typicalityThreshold };
+  assertAccentReadable(settings, before);
   const changed = Object.fromEntries(Object.entries(settings).filter(([, v]) => v !== undefined));
   await embed.update(changed);
   invalidateEmbed(embed.id);
@@ -169,6 +171,21 @@ export async function updateSettings(acting: Acting, embedId: number, settings: 
     await audit(acting, 'embed.settings', embed, { changes: others.map((k) => ({ setting: k, from: before[k], to: embed[k] })) });
   }
   return embed;
+}
+
+/**
+ * A new accent or theme must leave the accent readable on that theme (lib/embeds/contrast.ts).
+ * Other edits are not held up by a colour saved before the rule existed; the page still
+ * shows a passing colour for it (lib/embeds/calculator-page.ts).
+ */
+function assertAccentReadable(settings: EmbedSettings, stored: { theme: 'light' | 'dark'; accentColor: string }) {
+  if (settings.accentColor === undefined && settings.theme === undefined) return;
+  const theme = settings.theme ?? stored.theme;
+  const accent = settings.accentColor ?? (isHexColour(stored.accentColor) ? stored.accentColor : DEFAULT_ACCENT);
+  const problem = accentProblem(accent, theme);
+  if (!problem) return;
+  const message = settings.accentColor === undefined ? `The saved accent colour does not suit the ${theme} theme. ${problem.message}` : problem.message;
+  throw new AppError('invalid_input', message, { issues: [{ field: 'accentColor', message, suggestion: problem.suggestion }] });
 }
 
 export async function listEmbeds(acting: Acting): Promise<Embed[]> {

@@ -50,7 +50,7 @@ describe('what the calculator page renders', () => {
     expect((await loadCalculatorView(embed.token, undefined)).state).toBe('unavailable');
     await Workspace.update({ suspendedAt: null }, { where: { id: ws.workspace.id } });
     invalidateEmbed(embed.id);
-    await updateSettings(acting(), embed.id, { theme: 'dark' });
+    await updateSettings(acting(), embed.id, { theme: 'dark', accentColor: '#e0a526' });
     const dark = await loadCalculatorView(embed.token, undefined);
     expect(dark.state === 'ready' && dark.props.theme).toBe('dark');
     await retireEmbed(acting(), embed.id);

@@ -166,7 +166,7 @@ describe('allowed origins and the frame policy', () => {
     expect(issues[1].message).toMatch(/user name or password/);
 
     // A pasted page address keeps its origin only.
-    const good = await patch({ allowedOrigins: ['HTTPS://Club.Example:443/', 'http://localhost:4000', 'https://club.example/rides/join?x=1'], theme: 'dark', typicalityThreshold: 5 });
+    const good = await patch({ allowedOrigins: ['HTTPS://Club.Example:443/', 'http://localhost:4000', 'https://club.example/rides/join?x=1'], theme: 'dark', accentColor: '#e0a526', typicalityThreshold: 5 });
     expect(good.status).toBe(200);
     const saved = (await good.json()).embed;
     expect(saved.allowedOrigins).toEqual(['https://club.example', 'http://localhost:4000']);
@@ -198,6 +198,8 @@ describe('allowed origins and the frame policy', () => {
     await settingsRoute(await makeRequest(`/api/embeds/${embed.id}`, { method: 'PATCH', userId: ws.owner.id, json: { allowedOrigins: ['https://club.example'] } }), idCtx(embed.id));
     expect(await AuditEvent.count({ where: { action: 'embed.origins', targetId: String(embed.id) } })).toBe(1);
     // The settings form sends every field: a theme change with the same sites is a settings change, not a sites change.
+    // (An accent that suits the dark theme too, set without an audit entry, so the theme is the only change.)
+    await Embed.update({ accentColor: '#2f705f' }, { where: { id: embed.id } });
     await settingsRoute(await makeRequest(`/api/embeds/${embed.id}`, { method: 'PATCH', userId: ws.owner.id, json: { allowedOrigins: ['https://club.example'], theme: 'dark', title: embed.title } }), idCtx(embed.id));
     expect(await AuditEvent.count({ where: { action: 'embed.origins', targetId: String(embed.id) } })).toBe(1);
     const settings = await AuditEvent.findAll({ where: { action: 'embed.settings', targetId: String(embed.id) } });
