@@ -81,7 +81,8 @@ describe('the studio, as the club analyst', () => {
     await page.getByRole('button', { name: 'Save names and fields' }).click();
     await page.getByRole('status').filter({ hasText: 'Saved.' }).waitFor();
     await page.reload();
-    await expect(page.getByLabel('Label of cluster 1').inputValue()).resolves.toBe('Easy social');
+    // The form's fields are filled when it hydrates (react-hook-form registers them on the client).
+    await expect.poll(() => page.getByLabel('Label of cluster 1').inputValue()).toBe('Easy social');
     await page.getByTestId('cluster-scatter').locator('svg').first().waitFor({ timeout: 30_000 });
     const legend = await page.getByTestId('cluster-scatter').textContent();
     expect(legend).toContain('Easy social');
