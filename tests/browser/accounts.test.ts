@@ -77,7 +77,7 @@ describe('accounts in the browser', () => {
 
     await page.getByRole('link', { name: 'Sign in' }).click();
     await page.waitForURL(/\/signin/);
-    await expect(page.getByLabel('E-mail').inputValue()).resolves.toBe(email);
+    await expect.poll(() => page.getByLabel('E-mail').inputValue()).toBe(email);
     await page.getByLabel('Password').fill('not-my-password');
     await page.getByRole('button', { name: 'Sign in' }).click();
     await page.getByRole('alert').filter({ hasText: 'do not match' }).waitFor();

@@ -135,14 +135,14 @@ describe("the publisher's choice in the studio", () => {
     const page = await context.newPage();
     await page.goto(appUrl(`/studio/models/${ws.model.id}`));
     const speed = page.getByLabel('Must visitors fill in avg_speed_kmh?');
-    await expect(speed.inputValue()).resolves.toBe('required');
+    await expect.poll(() => speed.inputValue()).toBe('required');
     await speed.selectOption({ label: 'May be left blank' });
     await page.getByRole('button', { name: 'Save names and fields' }).click();
     await page.getByRole('status').filter({ hasText: 'Saved.' }).waitFor();
     const saved = (await MixtureModel.findByPk(ws.model.id))!;
     expect(saved.fields.map((f) => f.optional)).toEqual([true, false, false]);
     await page.reload();
-    await expect(page.getByLabel('Must visitors fill in avg_speed_kmh?').inputValue()).resolves.toBe('optional');
+    await expect.poll(() => page.getByLabel('Must visitors fill in avg_speed_kmh?').inputValue()).toBe('optional');
     await page.getByLabel('Must visitors fill in climb_per_ride_m?').scrollIntoViewIfNeeded();
     await screenshot(page, 'blank-fields-studio');
     await context.close();

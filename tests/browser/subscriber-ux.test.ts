@@ -112,7 +112,7 @@ describe('a new subscriber in the studio', () => {
     await screenshot(page, 'subscriber-model-page');
     await page.getByRole('link', { name: 'Publish as a calculator' }).click();
     await page.waitForURL(/\/studio\/calculators\?model=\d+#publish$/);
-    await expect(page.getByLabel('Model', { exact: true }).inputValue()).resolves.toBe(String(modelId));
+    await expect.poll(() => page.getByLabel('Model', { exact: true }).inputValue()).toBe(String(modelId));
   });
 
   it('asks for the website at publish, in plain words when it is wrong', async () => {
@@ -146,10 +146,10 @@ describe('a new subscriber in the studio', () => {
     await origins.fill('https://club.example/rides/join?x=1');
     await page.getByRole('button', { name: 'Save settings' }).click();
     await page.getByRole('status').filter({ hasText: 'shortened to the site part' }).waitFor();
-    await expect(origins.inputValue()).resolves.toBe('https://club.example');
+    await expect.poll(() => origins.inputValue()).toBe('https://club.example');
     await page.reload();
     await expect(page.getByTestId('no-websites-warning').count()).resolves.toBe(0);
-    await expect(page.getByLabel('Websites that may show it').inputValue()).resolves.toBe('https://club.example');
+    await expect.poll(() => page.getByLabel('Websites that may show it').inputValue()).toBe('https://club.example');
     await screenshot(page, 'subscriber-calculator-website-kept');
   });
 
