@@ -12,10 +12,10 @@ type Maybe = number | null | undefined;
 const usable = (v: Maybe): v is number => typeof v === 'number' && Number.isFinite(v);
 
 const cache = new Map<string, Intl.NumberFormat>();
-function numberFormat(options: Intl.NumberFormatOptions): Intl.NumberFormat {
-  const key = JSON.stringify(options);
+function numberFormat(options: Intl.NumberFormatOptions, locale = LOCALE): Intl.NumberFormat {
+  const key = `${locale} ${JSON.stringify(options)}`;
   let f = cache.get(key);
-  if (!f) cache.set(key, (f = new Intl.NumberFormat(LOCALE, options)));
+  if (!f) cache.set(key, (f = new Intl.NumberFormat(locale, options)));
   return f;
 }
 
@@ -138,9 +138,26 @@ export function formatDuration(ms: Maybe): string {
  * A membership probability as visitors read it: whole percents, and the two ends as
  * "over 99%" / "under 1%" so a rounded "100%" or "0%" never claims certainty.
  */
-export function formatProbability(probability: number): string {
-  const whole = numberFormat({ style: 'percent', maximumFractionDigits: 0 });
-  if (probability >= 0.995) return `over ${whole.format(0.99)}`;
-  if (probability < 0.005) return `under ${whole.format(0.01)}`;
+export function formatProbability(probability: number, lang: ProbabilityWords = ENGLISH_PROBABILITY): string {
+  const whole = numberFormat({ style: 'percent', maximumFractionDigits: 0 }, lang.locale);
+  if (probability >= 0.995) return lang.over(whole.format(0.99));
+  if (probability < 0.005) return lang.under(whole.format(0.01));
   return whole.format(probability);
+}
+
+/** A calculator language's locale and its words for the two ends ("over 99%"). */
+export interface ProbabilityWords {
+  locale: string;
+  over: (percent: string) => string;
+  under: (percent: string) => string;
+}
+const ENGLISH_PROBABILITY: ProbabilityWords = { locale: LOCALE, over: (p) => `over ${p}`, under: (p) => `under ${p}` };
+
+/**
+ * A number a visitor reads or types back, in a calculator language's locale: as many
+ * decimals as it has (up to 6), grouped the locale's way: 1,234.5 / 1.234,5 / 1 234,5.
+ */
+export function formatInputNumber(v: number, locale: string): string {
+  if (!Number.isFinite(v)) return NONE;
+  return withMinus(numberFormat({ maximumFractionDigits: 6 }, locale).format(v));
 }
