@@ -27,7 +27,7 @@ async function renderPage(acceptLanguage: string | null): Promise<{ html: string
   const view = await loadCalculatorView(embed.token, undefined, acceptLanguage);
   if (view.state !== 'ready') throw new Error(`expected ready, got ${view.state}`);
   const { props } = view;
-  const html = renderToStaticMarkup(createElement(CalculatorFrame, { theme: props.theme, accent: props.accent, accentText: props.accentText, language: props.language }, createElement(Calculator, props)));
+  const html = renderToStaticMarkup(createElement(CalculatorFrame, { theme: props.theme, accent: props.accent, accentText: props.accentText, language: props.language, children: createElement(Calculator, props) }));
   return { html, props };
 }
 
