@@ -23,8 +23,8 @@ export const en = {
   /** min and max come formatted for the language. */
   accepted: (min: string, max: string, unit: string) => `Accepted: ${min} to ${max}${unitAfter(unit)}.`,
   fieldRequired: (label: string) => `Enter ${label}.`,
-  /** `example` is 1234.5 written the language's way. */
-  notNumber: (label: string, example: string) => `${label} must be a number, written like ${example}.`,
+  /** `example` is 1234.5 written the language's way (English readers need no example of a dot). */
+  notNumber: (label: string, _example: string) => `${label} must be a number.`,
   ambiguous: (label: string, example: string) => `${label} could be read in more than one way. Write the number like ${example}.`,
   outOfRange: (label: string, min: string, max: string, unit: string) => `${label} must be between ${min} and ${max}${unitAfter(unit)}.`,
   /** A value the server refused, when it gives no reason the calculator can word. */
