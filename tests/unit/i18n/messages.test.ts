@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { catalogues } from '@/components/embed/messages';
 import { LANGUAGES, languageFromAcceptLanguage, resolveLanguage } from '@/lib/i18n/languages';
+import { loaderLanguage, loaderMessages } from '@/embed/loader-messages';
 
 /** Every key path of a catalogue, with the kind of value behind it (and a function's arity). */
 function shape(value: unknown, path = ''): string[] {
@@ -49,6 +50,24 @@ describe('the calculator message catalogue', () => {
     expect(catalogues.es.notUsed(['Desnivel', 'Distancia'])).toContain('Desnivel y Distancia');
     expect(catalogues.en.notUsed(['A', 'B', 'C'])).toContain('A, B and C');
     expect(catalogues.de.reason.towards('Bergfreunde', true)).toBe('Spricht deutlich für Bergfreunde.');
+  });
+});
+
+describe("the loader's notice on the host page", () => {
+  it.each(LANGUAGES)('%s has every loader text, written', (language) => {
+    expect(shape(loaderMessages[language])).toEqual(shape(loaderMessages.en));
+    for (const [path, text] of rendered(loaderMessages[language])) {
+      expect(text.trim().length, path).toBeGreaterThan(0);
+      if (language !== 'en') expect(text, path).not.toBe(rendered(loaderMessages.en).find(([p]) => p === path)?.[1]);
+    }
+  });
+
+  it("speaks the placeholder's data-partwise-language, else the host page's lang, else English", () => {
+    expect(loaderLanguage('fr', 'de-AT')).toBe('fr');
+    expect(loaderLanguage(null, 'de-AT')).toBe('de');
+    expect(loaderLanguage('nl', 'ES')).toBe('es');
+    expect(loaderLanguage(null, 'ja')).toBe('en');
+    expect(loaderLanguage(undefined, '')).toBe('en');
   });
 });
 
