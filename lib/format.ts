@@ -161,3 +161,22 @@ export function formatInputNumber(v: number, locale: string): string {
   if (!Number.isFinite(v)) return NONE;
   return withMinus(numberFormat({ maximumFractionDigits: 6 }, locale).format(v));
 }
+
+/**
+ * The locale's marks in the shape vega's number formats take (d3-format), so the chart's
+ * axis reads "20 %" in German as the rest of the calculator does.
+ */
+export function chartNumberLocale(locale: string): { decimal: string; thousands: string; grouping: number[]; currency: [string, string]; percent: string; minus: string } {
+  const parts = new Intl.NumberFormat(locale).formatToParts(12345.6);
+  const pct = new Intl.NumberFormat(locale, { style: 'percent' }).formatToParts(0.5);
+  const sign = pct.findIndex((p) => p.type === 'percentSign');
+  const before = sign > 0 && pct[sign - 1].type === 'literal' ? pct[sign - 1].value : '';
+  return {
+    decimal: parts.find((p) => p.type === 'decimal')?.value ?? '.',
+    thousands: parts.find((p) => p.type === 'group')?.value ?? ',',
+    grouping: [3],
+    currency: ['', ''],
+    percent: `${before}%`,
+    minus: '−',
+  };
+}

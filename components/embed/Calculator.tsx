@@ -276,7 +276,7 @@ export function Calculator(props: CalculatorProps) {
                   {t.notUsed(answer.unused.map(labelOf))}
                 </p>
               )}
-              <MembershipChart spec={chartSpec} rows={rows} formatPercent={formatPercent} texts={t} />
+              <MembershipChart spec={chartSpec} rows={rows} formatPercent={formatPercent} texts={t} locale={sp.locale} />
               {answer.reason && <AnswerReason reason={answer.reason} groups={answer.probabilities} labelOf={labelOf} texts={t.reason} />}
             </div>
           </div>

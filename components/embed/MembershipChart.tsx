@@ -1,5 +1,6 @@
 'use client';
 import { useEffect, useRef, useState } from 'react';
+import { chartNumberLocale } from '@/lib/format';
 import type { Messages } from './messages';
 
 export interface MembershipRow {
@@ -21,7 +22,7 @@ export function preloadChart() {
  * server compiled from vega-lite. The same numbers are also a plain list, which is what
  * screen readers get (the SVG is hidden from them), shown to everyone if vega fails.
  */
-export function MembershipChart({ spec, rows, formatPercent, texts }: { spec: object; rows: MembershipRow[]; formatPercent: (p: number) => string; texts: Pick<Messages, 'chartFailed' | 'chartList'> }) {
+export function MembershipChart({ spec, rows, formatPercent, texts, locale }: { spec: object; rows: MembershipRow[]; formatPercent: (p: number) => string; texts: Pick<Messages, 'chartFailed' | 'chartList'>; locale: string }) {
   const container = useRef<HTMLDivElement>(null);
   const [failed, setFailed] = useState(false);
 
@@ -32,7 +33,8 @@ export function MembershipChart({ spec, rows, formatPercent, texts }: { spec: ob
       .then(async ({ vega, interpreter }) => {
         if (cancelled || !container.current) return;
         // Parsed to an AST and run by the interpreter: no eval, so the page's CSP can forbid it.
-        const runtime = vega.parse(spec as import('vega').Spec, undefined, { ast: true });
+        // The axis numbers in the calculator language's marks ("20 %" in German).
+        const runtime = vega.parse(spec as import('vega').Spec, { locale: { number: chartNumberLocale(locale) } }, { ast: true });
         view = new vega.View(runtime, { renderer: 'svg', container: container.current, hover: false, expr: interpreter });
         // The bar labels are our own text, so they read exactly like the headline and the list.
         view.data('memberships', rows.map((r) => ({ label: r.label, probability: r.probability, text: formatPercent(r.probability) })));
@@ -44,7 +46,7 @@ export function MembershipChart({ spec, rows, formatPercent, texts }: { spec: ob
       cancelled = true;
       view?.finalize();
     };
-  }, [spec, rows, formatPercent]);
+  }, [spec, rows, formatPercent, locale]);
 
   return (
     <div>

@@ -66,6 +66,7 @@ describe('the calculator in four languages', () => {
     english = await answerFor(page, 'Show my groups', '31.5', '255', '640');
     expect(english.sent).toEqual({ values: { avg_speed_kmh: 31.5, weekly_distance_km: 255, climb_per_ride_m: 640 } });
     await page.getByText('Accepted: 0 to 3,000 m.').waitFor();
+    await expect(page.locator('[data-testid="membership-chart"] svg').textContent()).resolves.toContain('20%');
     await screenshot(page, 'languages-en');
     await page.context().close();
   });
@@ -97,6 +98,8 @@ describe('the calculator in four languages', () => {
     // Percentages the German way: "62 %" with a no-break space, or "über 99 %".
     expect(heading).toMatch(/\d[\u00a0\u202f]%\)$/);
     await page.getByText('Zulässig: 0 bis 3.000 m.').waitFor();
+    // The chart's axis too: "20 %", not "20%".
+    await expect(page.locator('[data-testid="membership-chart"] svg').textContent()).resolves.toMatch(/20[\u00a0\u202f]%/);
     await page.getByRole('heading', { name: 'Warum diese Gruppe' }).waitFor();
     await page.getByText('Die Wahrscheinlichkeiten beschreiben', { exact: false }).waitFor();
     const body = (await page.locator('body').textContent()) ?? '';

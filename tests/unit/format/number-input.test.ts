@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { formatInputNumber, formatProbability } from '@/lib/format';
+import { chartNumberLocale, formatInputNumber, formatProbability } from '@/lib/format';
 import { localeOf, type Language } from '@/lib/i18n/languages';
 import { parseLocaleNumber } from '@/lib/number-input';
 
@@ -85,5 +85,13 @@ describe('numbers shown in the language’s format', () => {
     expect(formatProbability(0.43, { locale: localeOf('de'), over: (p) => `über ${p}`, under: (p) => `unter ${p}` })).toBe('43\u00a0%');
     expect(formatProbability(0.999, { locale: localeOf('fr'), over: (p) => `plus de ${p}`, under: (p) => `moins de ${p}` })).toMatch(/^plus de 99[\u00a0\u202f]%$/);
     expect(formatProbability(0.43)).toBe('43%');
+  });
+
+  it('gives the chart the locale’s marks', () => {
+    expect(chartNumberLocale(localeOf('en'))).toMatchObject({ decimal: '.', thousands: ',', percent: '%' });
+    expect(chartNumberLocale(localeOf('de'))).toMatchObject({ decimal: ',', thousands: '.', percent: '\u00a0%' });
+    expect(chartNumberLocale(localeOf('fr')).decimal).toBe(',');
+    expect(chartNumberLocale(localeOf('fr')).percent).toMatch(/^[\u00a0\u202f]%$/);
+    expect(chartNumberLocale(localeOf('es'))).toMatchObject({ decimal: ',', thousands: '.' });
   });
 });
