@@ -4,8 +4,11 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { Calculator } from '@/components/embed/Calculator';
 import { CalculatorFrame, CalculatorUnavailable } from '@/components/embed/CalculatorFrame';
 import { loadCalculatorView, type CalculatorProps } from '@/lib/embeds/calculator-page';
-import { describeEmbed, embedSettingsSchema, publishNew, retireEmbed, updateSettings } from '@/lib/embeds/service';
-import { Embed } from '@/models';
+import { PATCH as settingsRoute } from '@/app/api/embeds/[id]/route';
+import { describeEmbed, publishNew, retireEmbed, updateSettings } from '@/lib/embeds/service';
+import { detailSummary } from '@/lib/support/audit-words';
+import { makeRequest } from '../../helpers/auth';
+import { AuditEvent, Embed } from '@/models';
 import { modelWorkspace } from './fixtures';
 
 /**
@@ -94,13 +97,23 @@ describe('the calculator page in the chosen language', () => {
     expect(text(html)).toContain('Esta calculadora no está disponible');
   });
 
-  it('refuses a language the calculator does not speak, naming the setting; the saved one stays', async () => {
-    await updateSettings(acting(), embed.id, { language: 'fr' });
-    const parsed = embedSettingsSchema.safeParse({ language: 'nl' });
-    expect(parsed.success).toBe(false);
-    expect(parsed.error?.issues[0].path).toEqual(['language']);
-    expect(parsed.error?.issues[0].message).toMatch(/English, German, French, Spanish/);
+  it('is set through the settings route: a language we do not speak is a 422 naming the field, and the saved one stays', async () => {
+    const patch = async (json: unknown) => settingsRoute(await makeRequest(`/api/embeds/${embed.id}`, { method: 'PATCH', userId: ws.member.id, json }), { params: Promise.resolve({ id: String(embed.id) }) });
+    const ok = await patch({ language: 'fr' });
+    expect(ok.status).toBe(200);
+    expect((await ok.json()).embed.language).toBe('fr');
+    for (const language of ['nl', 'DE', '', 3, null]) {
+      const bad = await patch({ language });
+      expect(bad.status).toBe(422);
+      const issues = (await bad.json()).error.issues as { field: string; message: string }[];
+      expect(issues).toHaveLength(1);
+      expect(issues[0].field).toBe('language');
+      expect(issues[0].message).toMatch(/English, German, French, Spanish/);
+    }
     await embed.reload();
     expect(embed.language).toBe('fr');
+    // The studio's trail words the change.
+    const trail = await AuditEvent.findOne({ where: { action: 'embed.settings', targetId: embed.id }, order: [['id', 'DESC']] });
+    expect(detailSummary(trail!.detail as Record<string, unknown>)).toContain('calculator language');
   });
 });
