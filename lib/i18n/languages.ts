@@ -9,13 +9,13 @@ export type Language = (typeof LANGUAGES)[number];
 export const LANGUAGE_SETTINGS = ['auto', ...LANGUAGES] as const;
 export type LanguageSetting = (typeof LANGUAGE_SETTINGS)[number];
 
-/** Names of the choices, each language in its own words (the studio's select shows them). */
+/** Names of the choices for the (English) studio's select, each with the language's own name. */
 export const LANGUAGE_NAMES: Record<LanguageSetting, string> = {
   auto: "Follow the visitor's browser (English if none of these)",
   en: 'English',
-  de: 'Deutsch',
-  fr: 'Français',
-  es: 'Español',
+  de: 'German (Deutsch)',
+  fr: 'French (Français)',
+  es: 'Spanish (Español)',
 };
 
 /** The Intl locale behind each language: its number formats. */
