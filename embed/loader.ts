@@ -14,6 +14,7 @@
  * hidden and a short neutral notice takes its place, instead of a broken-frame icon. A
  * sign of life arriving later (a slow device) brings the calculator back.
  */
+import { loaderLanguage, loaderMessages, type LoaderMessages } from './loader-messages';
 import { isReadyMessage, isSizeMessage, MAX_FRAME_HEIGHT, MESSAGE_SOURCE, READY_TIMEOUT_MS, TOKEN_PATTERN, type HelloMessage } from './protocol';
 
 const ATTR = 'data-partwise-calculator';
@@ -40,17 +41,17 @@ interface Placed {
 const NOTICE_ATTR = 'data-partwise-notice';
 
 /** The host page's stand-in for a refused frame: plain text in the page's own font, nothing about the allowed sites. */
-function refusedNotice(): HTMLElement {
+function refusedNotice(t: LoaderMessages): HTMLElement {
   const box = document.createElement('div');
   box.setAttribute(NOTICE_ATTR, '');
   box.setAttribute('role', 'status');
   box.style.cssText = 'box-sizing:border-box;max-width:100%;margin:0;padding:12px 16px;border:1px solid rgba(128,128,128,.45);border-radius:8px;font:inherit;font-size:15px;line-height:1.45;color:inherit;background:transparent';
   const title = document.createElement('p');
   title.style.cssText = 'margin:0;font-weight:bold';
-  title.textContent = 'This calculator cannot be shown on this page.';
+  title.textContent = t.refusedTitle;
   const hint = document.createElement('p');
   hint.style.cssText = 'margin:4px 0 0;font-size:13px;opacity:.8';
-  hint.textContent = 'If this is your website, check the calculator\u2019s address and its allowed websites in Partwise.';
+  hint.textContent = t.refusedHint;
   box.append(title, hint);
   return box;
 }
@@ -79,7 +80,10 @@ function start(appOrigin: string) {
       const src = new URL(`/embed/${encodeURIComponent(token)}`, appOrigin);
       src.searchParams.set('host', location.origin);
       frame.src = src.toString();
-      frame.title = el.getAttribute('data-partwise-title') || 'Group membership calculator';
+      // The notice and default title speak the host page's language (or the placeholder's data-partwise-language).
+      const language = loaderLanguage(el.getAttribute('data-partwise-language'), document.documentElement.lang);
+      const t = loaderMessages[language];
+      frame.title = el.getAttribute('data-partwise-title') || t.frameTitle;
       frame.loading = 'lazy';
       frame.setAttribute('referrerpolicy', 'strict-origin-when-cross-origin');
       frame.style.cssText = 'display:block;width:100%;max-width:100%;border:0;height:560px;overflow:hidden;color-scheme:normal';
@@ -92,7 +96,8 @@ function start(appOrigin: string) {
         clearTimeout(timer);
         timer = setTimeout(() => {
           if (entry.alive || entry.notice || !frame.isConnected) return;
-          entry.notice = refusedNotice();
+          entry.notice = refusedNotice(t);
+          entry.notice.lang = language;
           frame.style.display = 'none';
           frame.after(entry.notice);
         }, READY_TIMEOUT_MS);

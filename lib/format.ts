@@ -12,10 +12,10 @@ type Maybe = number | null | undefined;
 const usable = (v: Maybe): v is number => typeof v === 'number' && Number.isFinite(v);
 
 const cache = new Map<string, Intl.NumberFormat>();
-function numberFormat(options: Intl.NumberFormatOptions): Intl.NumberFormat {
-  const key = JSON.stringify(options);
+function numberFormat(options: Intl.NumberFormatOptions, locale = LOCALE): Intl.NumberFormat {
+  const key = `${locale} ${JSON.stringify(options)}`;
   let f = cache.get(key);
-  if (!f) cache.set(key, (f = new Intl.NumberFormat(LOCALE, options)));
+  if (!f) cache.set(key, (f = new Intl.NumberFormat(locale, options)));
   return f;
 }
 
@@ -138,9 +138,45 @@ export function formatDuration(ms: Maybe): string {
  * A membership probability as visitors read it: whole percents, and the two ends as
  * "over 99%" / "under 1%" so a rounded "100%" or "0%" never claims certainty.
  */
-export function formatProbability(probability: number): string {
-  const whole = numberFormat({ style: 'percent', maximumFractionDigits: 0 });
-  if (probability >= 0.995) return `over ${whole.format(0.99)}`;
-  if (probability < 0.005) return `under ${whole.format(0.01)}`;
+export function formatProbability(probability: number, lang: ProbabilityWords = ENGLISH_PROBABILITY): string {
+  const whole = numberFormat({ style: 'percent', maximumFractionDigits: 0 }, lang.locale);
+  if (probability >= 0.995) return lang.over(whole.format(0.99));
+  if (probability < 0.005) return lang.under(whole.format(0.01));
   return whole.format(probability);
+}
+
+/** A calculator language's locale and its words for the two ends ("over 99%"). */
+export interface ProbabilityWords {
+  locale: string;
+  over: (percent: string) => string;
+  under: (percent: string) => string;
+}
+const ENGLISH_PROBABILITY: ProbabilityWords = { locale: LOCALE, over: (p) => `over ${p}`, under: (p) => `under ${p}` };
+
+/**
+ * A number a visitor reads or types back, in a calculator language's locale: as many
+ * decimals as it has (up to 6), grouped the locale's way: 1,234.5 / 1.234,5 / 1 234,5.
+ */
+export function formatInputNumber(v: number, locale: string): string {
+  if (!Number.isFinite(v)) return NONE;
+  return withMinus(numberFormat({ maximumFractionDigits: 6 }, locale).format(v));
+}
+
+/**
+ * The locale's marks in the shape vega's number formats take (d3-format), so the chart's
+ * axis reads "20 %" in German as the rest of the calculator does.
+ */
+export function chartNumberLocale(locale: string): { decimal: string; thousands: string; grouping: number[]; currency: [string, string]; percent: string; minus: string } {
+  const parts = new Intl.NumberFormat(locale).formatToParts(12345.6);
+  const pct = new Intl.NumberFormat(locale, { style: 'percent' }).formatToParts(0.5);
+  const sign = pct.findIndex((p) => p.type === 'percentSign');
+  const before = sign > 0 && pct[sign - 1].type === 'literal' ? pct[sign - 1].value : '';
+  return {
+    decimal: parts.find((p) => p.type === 'decimal')?.value ?? '.',
+    thousands: parts.find((p) => p.type === 'group')?.value ?? ',',
+    grouping: [3],
+    currency: ['', ''],
+    percent: `${before}%`,
+    minus: '−',
+  };
 }

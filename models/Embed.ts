@@ -15,6 +15,8 @@ export class Embed extends Model<InferAttributes<Embed>, InferCreationAttributes
   declare allowedOrigins: CreationOptional<string[]>;
   declare theme: CreationOptional<'light' | 'dark'>;
   declare accentColor: CreationOptional<string>;
+  /** The calculator's language for its fixed texts: 'auto' (the visitor's browser) or en, de, fr, es. */
+  declare language: CreationOptional<string>;
   /** Typicality percentile below which visitors see the "unlike the data" notice. */
   declare typicalityThreshold: CreationOptional<number>;
   declare disabledReason: CreationOptional<string | null>;
@@ -37,6 +39,7 @@ export class Embed extends Model<InferAttributes<Embed>, InferCreationAttributes
         allowedOrigins: { type: DataTypes.JSON, allowNull: false, defaultValue: [] },
         theme: { type: DataTypes.STRING(8), allowNull: false, defaultValue: 'light' },
         accentColor: { type: DataTypes.STRING(9), allowNull: false, defaultValue: '#2f6f5e' },
+        language: { type: DataTypes.STRING(8), allowNull: false, defaultValue: 'auto' },
         typicalityThreshold: { type: DataTypes.FLOAT, allowNull: false, defaultValue: 1 },
         disabledReason: { type: DataTypes.TEXT, allowNull: true },
         disabledAt: { type: DataTypes.DATE, allowNull: true },

@@ -4,6 +4,7 @@ import { useState } from 'react';
 import { useForm } from 'react-hook-form';
 import { ErrorNote } from '@/components/studio/StudioPage';
 import { fixFieldsNotice, parseTypedNumber, placeServerIssues } from '@/components/studio/form-issues';
+import { LANGUAGE_NAMES, LANGUAGE_SETTINGS } from '@/lib/i18n/languages';
 import { callApi } from './api';
 
 interface Settings {
@@ -12,6 +13,7 @@ interface Settings {
   theme: 'light' | 'dark';
   accentColor: string;
   typicalityThreshold: number;
+  language: string;
 }
 
 interface Values {
@@ -20,6 +22,7 @@ interface Values {
   theme: 'light' | 'dark';
   accent: string;
   threshold: string;
+  language: string;
 }
 
 const originLines = (text: string) => text.split(/\r?\n/).map((s) => s.trim()).filter(Boolean);
@@ -32,7 +35,7 @@ export function SettingsForm({ embedId, initial, disabled }: { embedId: number; 
   // The nearest readable accent the server proposed when it refused the chosen one.
   const [accentSuggestion, setAccentSuggestion] = useState<string | null>(null);
   const { register, handleSubmit, setError, setValue, clearErrors, formState } = useForm<Values>({
-    defaultValues: { title: initial.title, origins: initial.allowedOrigins.join('\n'), theme: initial.theme, accent: initial.accentColor, threshold: String(initial.typicalityThreshold) },
+    defaultValues: { title: initial.title, origins: initial.allowedOrigins.join('\n'), theme: initial.theme, accent: initial.accentColor, threshold: String(initial.typicalityThreshold), language: initial.language },
   });
   const errors = formState.errors;
 
@@ -47,6 +50,7 @@ export function SettingsForm({ embedId, initial, disabled }: { embedId: number; 
       theme: values.theme === 'dark' ? 'dark' : 'light',
       accentColor: values.accent,
       typicalityThreshold: parseTypedNumber(values.threshold) ?? -1,
+      language: values.language,
     });
     if (!result.ok) {
       setAccentSuggestion(result.error.issues.find((i) => i.field === 'accentColor' && i.suggestion)?.suggestion ?? null);
@@ -59,6 +63,7 @@ export function SettingsForm({ embedId, initial, disabled }: { embedId: number; 
         if (field === 'theme') return { name: 'theme' };
         if (field === 'accentColor') return { name: 'accent' };
         if (field === 'typicalityThreshold') return { name: 'threshold' };
+        if (field === 'language') return { name: 'language' };
         return null;
       });
       return setNotice(rest.length ? rest.join(' ') : result.error.issues.length ? fixFieldsNotice(result.error.issues.length) : result.error.message);
@@ -149,6 +154,16 @@ export function SettingsForm({ embedId, initial, disabled }: { embedId: number; 
             {errors.threshold ? <p className="pw-field-error">{errors.threshold.message}</p> : null}
             <p id="s-threshold-help" className="mt-1 text-sm text-ink-soft">Visitors whose values are less typical than this share of your rows see a notice. Usual: 1.</p>
           </div>
+        </div>
+        <div>
+          <label htmlFor="s-language" className="pw-label">Calculator language</label>
+          <select id="s-language" className="pw-input" aria-describedby="s-language-help" aria-invalid={errors.language ? true : undefined} {...register('language')}>
+            {LANGUAGE_SETTINGS.map((l) => (
+              <option key={l} value={l}>{LANGUAGE_NAMES[l]}</option>
+            ))}
+          </select>
+          {errors.language && <p className="pw-field-error">{errors.language.message}</p>}
+          <p id="s-language-help" className="mt-1 text-sm text-ink-soft">For the calculator&rsquo;s own texts and number formats. Your labels, descriptions and caution stay as you wrote them.</p>
         </div>
       </fieldset>
       {notice && <ErrorNote message={notice} />}

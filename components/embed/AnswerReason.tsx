@@ -1,5 +1,5 @@
 import type { AnswerReason as Reason } from '@/lib/scoring/score';
-import { reasonTexts as t } from './texts';
+import type { Messages } from './messages';
 
 /** Below this (in nats) a value is said to point to neither group: odds moved by under 5 %. */
 const NEGLIGIBLE = 0.05;
@@ -17,11 +17,11 @@ interface Group {
  * the best group, left = towards the runner-up, length = share of the largest part).
  * The bars only repeat the words, so they are hidden from screen readers.
  */
-export function AnswerReason({ reason, groups, labelOf }: { reason: Reason; groups: Group[]; labelOf: (feature: string) => string }) {
+export function AnswerReason({ reason, groups, labelOf, texts: t }: { reason: Reason; groups: Group[]; labelOf: (feature: string) => string; texts: Messages['reason'] }) {
   const best = groups[reason.best];
   const runnerUp = groups[reason.runnerUp];
   const items = [
-    ...reason.fields.map((f) => ({ key: f.feature, title: t.position(labelOf(f.feature), f.position), contribution: f.contribution })),
+    ...reason.fields.map((f) => ({ key: f.feature, title: t.position(labelOf(f.feature), t.bands[f.position]), contribution: f.contribution })),
     { key: 'group-size', title: t.groupSize, contribution: reason.weightTerm },
   ];
   const largest = Math.max(NEGLIGIBLE, ...items.map((i) => Math.abs(i.contribution)));

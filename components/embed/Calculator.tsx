@@ -4,9 +4,11 @@ import type { CalculatorProps } from '@/lib/embeds/calculator-page';
 import type { AnswerReason as Reason } from '@/lib/scoring/score';
 import { AnswerReason } from './AnswerReason';
 import { MembershipChart, preloadChart, type MembershipRow } from './MembershipChart';
-import { formatProbability as formatPercent } from '@/lib/format';
+import { formatInputNumber, formatProbability } from '@/lib/format';
+import { localeOf, type Language } from '@/lib/i18n/languages';
+import { parseLocaleNumber } from '@/lib/number-input';
+import { messagesFor, type Messages } from './messages';
 import { ReportForm } from './ReportForm';
-import { blankTexts } from './texts';
 import { useHostSize } from './useHostSize';
 
 interface Answer {
@@ -32,22 +34,29 @@ interface Shown {
 
 type Field = CalculatorProps['fields'][number];
 
-const rangeText = (f: Field) => `${f.min} to ${f.max}${f.unit ? ` ${f.unit}` : ''}`;
+/** How this calculator speaks: its messages and the locale its numbers are read and written in. */
+interface Speech {
+  language: Language;
+  locale: string;
+  t: Messages;
+}
 
-/** Parse what a visitor typed: a plain decimal number (a comma works as the decimal mark). */
-function readNumber(text: string): number | null {
-  const t = text.trim().replace(/^([+-]?\d*),(\d+)$/, '$1.$2');
-  if (!/^[+-]?(\d+\.?\d*|\.\d+)([eE][+-]?\d+)?$/.test(t)) return null;
-  const v = Number(t);
-  return Number.isFinite(v) ? v : null;
+const numberText = (v: number, sp: Speech) => formatInputNumber(v, sp.locale);
+
+/** Parse what a visitor typed, the calculator language's way ("31,5" in German). */
+function readNumber(text: string, sp: Speech): number | null {
+  const parsed = parseLocaleNumber(text, sp.language);
+  return parsed.ok ? parsed.value : null;
 }
 
 /** The same checks the server makes, so most mistakes are explained before sending. */
-function checkField(f: Field, text: string): string | null {
-  if (!text.trim()) return f.optional ? null : `Enter ${f.label}.`;
-  const v = readNumber(text);
-  if (v === null) return `${f.label} must be a number.`;
-  if (v < f.min || v > f.max) return `${f.label} must be between ${f.min} and ${f.max}${f.unit ? ` ${f.unit}` : ''}.`;
+function checkField(f: Field, text: string, sp: Speech): string | null {
+  const { t } = sp;
+  if (!text.trim()) return f.optional ? null : t.fieldRequired(f.label);
+  const parsed = parseLocaleNumber(text, sp.language);
+  const example = numberText(1234.5, sp);
+  if (!parsed.ok) return parsed.problem === 'ambiguous' ? t.ambiguous(f.label, example) : t.notNumber(f.label, example);
+  if (parsed.value < f.min || parsed.value > f.max) return t.outOfRange(f.label, numberText(f.min, sp), numberText(f.max, sp), f.unit);
   return null;
 }
 
@@ -55,19 +64,22 @@ function checkField(f: Field, text: string): string | null {
  * The numbers the typed values stand for, or null while any is missing or invalid.
  * "24,5" and "24.5" have the same key: equal keys would get the same answer.
  */
-function valuesKey(fields: Field[], values: Record<string, string>): string | null {
+function valuesKey(fields: Field[], values: Record<string, string>, sp: Speech): string | null {
   const numbers: (number | null)[] = [];
   for (const f of fields) {
     const text = values[f.feature] ?? '';
-    if (checkField(f, text)) return null;
+    if (checkField(f, text, sp)) return null;
     // A blank optional field is part of the key: filling it in asks a new question.
-    numbers.push(text.trim() ? readNumber(text) : null);
+    numbers.push(text.trim() ? readNumber(text, sp) : null);
   }
   return JSON.stringify(numbers);
 }
 
 export function Calculator(props: CalculatorProps) {
-  const { token, title, fields, caution, chartSpec, hostOrigin } = props;
+  const { token, title, fields, caution, chartSpec, hostOrigin, language } = props;
+  const sp: Speech = useMemo(() => ({ language, locale: localeOf(language), t: messagesFor(language) }), [language]);
+  const t = sp.t;
+  const formatPercent = useMemo(() => (p: number) => formatProbability(p, { locale: sp.locale, over: t.over, under: t.under }), [sp, t]);
   useHostSize(token, hostOrigin);
   const formId = useId();
   const [values, setValues] = useState<Record<string, string>>(() => Object.fromEntries(fields.map((f) => [f.feature, ''])));
@@ -80,7 +92,7 @@ export function Calculator(props: CalculatorProps) {
   const inFlight = useRef(false);
   const answer = shown?.data ?? null;
   // The answer on screen no longer matches what the form says (edited, emptied or invalid).
-  const stale = shown !== null && valuesKey(fields, values) !== shown.key;
+  const stale = shown !== null && valuesKey(fields, values, sp) !== shown.key;
 
   // Hydrated: the form now answers (until then the button is disabled, so an early click
   // cannot submit the values natively into the address). The mark is what the benchmark reads.
@@ -88,8 +100,10 @@ export function Calculator(props: CalculatorProps) {
   useEffect(() => {
     setInteractive(true);
     performance.mark('partwise:interactive');
+    // The server renders the calculator root with its language; the document follows once hydrated.
+    document.documentElement.lang = language;
     document.getElementById('partwise-calculator-root')?.setAttribute('data-interactive', 'true');
-  }, []);
+  }, [language]);
 
   const focusFirst = (errs: Record<string, string>) => {
     const first = fields.find((f) => errs[f.feature]);
@@ -101,7 +115,7 @@ export function Calculator(props: CalculatorProps) {
     if (inFlight.current) return;
     const errs: Record<string, string> = {};
     for (const f of fields) {
-      const e = checkField(f, values[f.feature] ?? '');
+      const e = checkField(f, values[f.feature] ?? '', sp);
       if (e) errs[f.feature] = e;
     }
     setErrors(errs);
@@ -109,10 +123,10 @@ export function Calculator(props: CalculatorProps) {
       focusFirst(errs);
       return;
     }
-    const key = valuesKey(fields, values)!;
+    const key = valuesKey(fields, values, sp)!;
     if (shown && shown.key === key) {
       // The same numbers would get the same answer: nothing is sent or counted.
-      setNotice({ tone: 'calm', text: 'The answer below is already for these values. Change a value to see a new one.', untilEdit: true });
+      setNotice({ tone: 'calm', text: t.alreadyShown, untilEdit: true });
       return;
     }
     inFlight.current = true;
@@ -121,7 +135,7 @@ export function Calculator(props: CalculatorProps) {
     preloadChart();
     try {
       // A blank optional field is sent as null: not observed, answered from the other fields.
-      const body = { values: Object.fromEntries(fields.map((f) => [f.feature, (values[f.feature] ?? '').trim() ? readNumber(values[f.feature]) : null])) };
+      const body = { values: Object.fromEntries(fields.map((f) => [f.feature, (values[f.feature] ?? '').trim() ? readNumber(values[f.feature], sp) : null])) };
       const res = await fetch(`/api/score/${encodeURIComponent(token)}`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify(body) });
       const data = await res.json().catch(() => null);
       if (res.ok) {
@@ -134,25 +148,27 @@ export function Calculator(props: CalculatorProps) {
         const fromServer: Record<string, string> = {};
         for (const issue of data.error.issues as { field: string; message: string }[]) {
           const feature = issue.field.replace(/^values\./, '');
-          if (fields.some((f) => f.feature === feature)) fromServer[feature] = issue.message;
+          const field = fields.find((f) => f.feature === feature);
+          // The server words its reasons in English; other languages get their own sentence.
+          if (field) fromServer[feature] = language === 'en' ? issue.message : (checkField(field, values[feature] ?? '', sp) ?? t.fieldRefused(field.label));
         }
         setErrors(fromServer);
         focusFirst(fromServer);
-        if (!Object.keys(fromServer).length) setNotice({ tone: 'problem', text: message || 'Some values could not be used.' });
+        if (!Object.keys(fromServer).length) setNotice({ tone: 'problem', text: language === 'en' && message ? message : t.someValuesUnusable });
       } else if (res.status === 429) {
         // The server says whether this visitor sent many answers or the calculator as a whole is busy.
         const wait = res.headers.get('retry-after');
-        setNotice({ tone: 'calm', text: message || `That was a lot of tries in a short time. Please wait ${wait ? `${wait} seconds` : 'a moment'} and try again.` });
+        setNotice({ tone: 'calm', text: language === 'en' && message ? message : t.tooMany(wait && /^\d+$/.test(wait) ? wait : null) });
       } else if (res.status === 503) {
-        setNotice({ tone: 'calm', text: 'This calculator is taking a short break and will answer again soon. Nothing is wrong with your values.' });
+        setNotice({ tone: 'calm', text: t.paused });
       } else if (res.status === 410 || res.status === 404) {
-        setNotice({ tone: 'calm', text: 'This calculator is not available any more.' });
+        setNotice({ tone: 'calm', text: t.gone });
       } else {
-        setNotice({ tone: 'problem', text: 'Something went wrong on our side. Please try again.' });
+        setNotice({ tone: 'problem', text: t.serverProblem });
       }
     } catch {
       setShown(null);
-      setNotice({ tone: 'problem', text: 'The answer could not be fetched. Check the connection and try again.' });
+      setNotice({ tone: 'problem', text: t.offline });
     } finally {
       inFlight.current = false;
       setBusy(false);
@@ -167,7 +183,7 @@ export function Calculator(props: CalculatorProps) {
     <div className="space-y-5">
       <header>
         <h1 className="text-xl font-bold leading-tight text-ink dark:text-[#f3efe7]">{title}</h1>
-        <p className="mt-1 text-sm text-ink-soft dark:text-[#b9bfcc]">Enter your values to see how closely they resemble each group.</p>
+        <p className="mt-1 text-sm text-ink-soft dark:text-[#b9bfcc]">{t.intro}</p>
       </header>
 
       <form id={formId} noValidate onSubmit={submit} onFocus={() => void preloadChart()} className="space-y-4" aria-describedby={`${formId}-caution`}>
@@ -181,7 +197,7 @@ export function Calculator(props: CalculatorProps) {
               <label htmlFor={id} className="mb-1 block text-sm font-bold text-ink-soft dark:text-[#d5d9e2]">
                 {f.label}
                 {f.unit && <span className="font-normal"> ({f.unit})</span>}
-                {f.optional && <span className="font-normal"> ({blankTexts.optionalMark})</span>}
+                {f.optional && <span className="font-normal"> ({t.optionalMark})</span>}
               </label>
               <input
                 ref={(el) => {
@@ -203,16 +219,16 @@ export function Calculator(props: CalculatorProps) {
                   const text = e.target.value;
                   setValues((v) => ({ ...v, [f.feature]: text }));
                   setNotice((n) => (n?.untilEdit ? null : n));
-                  if (errors[f.feature]) setErrors((errs) => ({ ...errs, [f.feature]: checkField(f, text) ?? '' }));
+                  if (errors[f.feature]) setErrors((errs) => ({ ...errs, [f.feature]: checkField(f, text, sp) ?? '' }));
                 }}
                 onBlur={(e) => {
-                  if (e.target.value.trim()) setErrors((errs) => ({ ...errs, [f.feature]: checkField(f, e.target.value) ?? '' }));
+                  if (e.target.value.trim()) setErrors((errs) => ({ ...errs, [f.feature]: checkField(f, e.target.value, sp) ?? '' }));
                 }}
                 className="block w-full rounded-lg border border-ink/50 bg-white px-3 py-2 text-base text-ink focus:outline-none focus:ring-2 focus:ring-[var(--accent)] aria-[invalid=true]:border-clay-500 dark:border-white/45 dark:bg-[#1c2130] dark:text-[#f3efe7] dark:aria-[invalid=true]:border-[#f1a595]"
               />
               <p id={`${id}-range`} className="mt-1 text-xs text-ink-soft dark:text-[#a9b0bf]">
                 {f.help ? <span id={`${id}-help`}>{f.help} </span> : null}
-                Accepted: {rangeText(f)}.{f.optional ? ` ${blankTexts.optionalHint}` : null}
+                {t.accepted(numberText(f.min, sp), numberText(f.max, sp), f.unit)}{f.optional ? ` ${t.optionalHint}` : null}
               </p>
               {/* Always there, so a screen reader speaks an error as it appears (it is also linked to the field). */}
               <div aria-live="polite" data-testid={`error-region-${f.feature}`}>
@@ -226,11 +242,11 @@ export function Calculator(props: CalculatorProps) {
           );
         })}
         <button type="submit" disabled={busy || !interactive} className="inline-flex w-full items-center justify-center rounded-full px-5 py-2.5 text-sm font-bold transition disabled:opacity-60 sm:w-auto" style={{ backgroundColor: 'var(--accent)', color: 'var(--accent-text)' }}>
-          {busy ? 'Working it out…' : 'Show my groups'}
+          {busy ? t.busy : t.submit}
         </button>
       </form>
 
-      <section aria-live="polite" aria-atomic="false" aria-label="Result" className="space-y-3">
+      <section aria-live="polite" aria-atomic="false" aria-label={t.resultLabel} className="space-y-3">
         {notice && (
           <p role={notice.tone === 'problem' ? 'alert' : 'status'} className={`rounded-lg px-3 py-2 text-sm ${notice.tone === 'problem' ? 'bg-clay-100 text-clay-700' : 'bg-paper-deep text-ink dark:bg-[#262c3d] dark:text-[#e8e4dc]'}`}>
             {notice.text}
@@ -240,7 +256,7 @@ export function Calculator(props: CalculatorProps) {
           <div className="space-y-3 rounded-xl border border-ink/10 p-4 dark:border-white/15" data-testid="answer" data-stale={stale ? 'true' : undefined}>
             {stale && (
               <p className="rounded-lg bg-paper-deep px-3 py-2 text-sm text-ink dark:bg-[#262c3d] dark:text-[#e8e4dc]" data-testid="stale-notice">
-                You changed your values. The answer below is for the earlier ones; press &ldquo;Show my groups&rdquo; to update it.
+                {t.stale(t.submit)}
               </p>
             )}
             {/* Stale: greyed, yet its text keeps 4.5:1 (a fainter fade would make it unreadable). */}
@@ -248,16 +264,13 @@ export function Calculator(props: CalculatorProps) {
               {answer.unusual ? (
                 // Values far from all the data: the message leads, the nearest group is only mentioned.
                 <div className="space-y-1 rounded-lg border border-saffron-500/60 bg-saffron-100 px-3 py-2 text-ink" data-testid="unusual-notice">
-                  <h2 className="font-sans text-base font-bold">These values are unusual for this calculator</h2>
-                  <p className="text-sm">
-                    They are unlike the data it was built from, so none of the groups describes them well. The nearest is {answer.best.label}; read the
-                    percentages below with that in mind.
-                  </p>
+                  <h2 className="font-sans text-base font-bold">{t.unusualHeading}</h2>
+                  <p className="text-sm">{t.unusualBody(answer.best.label)}</p>
                 </div>
               ) : (
                 <>
                   <h2 className="font-sans text-base font-bold text-ink dark:text-[#f3efe7]">
-                    Most like: <span>{answer.best.label}</span>
+                    {t.mostLike} <span>{answer.best.label}</span>
                     <span className="font-normal"> ({formatPercent(answer.best.probability)})</span>
                   </h2>
                   {answer.best.description && <p className="text-sm text-ink-soft dark:text-[#c9ced8]">{answer.best.description}</p>}
@@ -265,11 +278,11 @@ export function Calculator(props: CalculatorProps) {
               )}
               {answer.unused.length > 0 && (
                 <p className="text-sm text-ink-soft dark:text-[#c9ced8]" data-testid="unused-fields">
-                  {blankTexts.notUsed(answer.unused.map(labelOf))}
+                  {t.notUsed(answer.unused.map(labelOf))}
                 </p>
               )}
-              <MembershipChart spec={chartSpec} rows={rows} />
-              {answer.reason && <AnswerReason reason={answer.reason} groups={answer.probabilities} labelOf={labelOf} />}
+              <MembershipChart spec={chartSpec} rows={rows} formatPercent={formatPercent} texts={t} locale={sp.locale} />
+              {answer.reason && <AnswerReason reason={answer.reason} groups={answer.probabilities} labelOf={labelOf} texts={t.reason} />}
             </div>
           </div>
         )}
@@ -277,10 +290,8 @@ export function Calculator(props: CalculatorProps) {
 
       <footer id={`${formId}-caution`} className="space-y-2 border-t border-ink/10 pt-3 text-xs text-ink-soft dark:border-white/15 dark:text-[#a9b0bf]">
         {caution && <p className="text-sm text-ink dark:text-[#e8e4dc]">{caution}</p>}
-        <p>
-          The probabilities describe how similar your values are to groups found in the publisher&rsquo;s data. They are not a diagnosis, a rating or a decision about you.
-        </p>
-        <ReportForm token={token} hostOrigin={hostOrigin} />
+        <p>{t.generalCaution}</p>
+        <ReportForm token={token} hostOrigin={hostOrigin} texts={t.report} englishServer={language === 'en'} />
       </footer>
     </div>
   );

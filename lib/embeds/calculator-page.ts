@@ -1,6 +1,7 @@
 import 'server-only';
 import { AppError } from '@/lib/errors';
 import { DEFAULT_CAUTION } from '@/lib/fitting/models';
+import { resolveLanguage, type Language } from '@/lib/i18n/languages';
 import { isServing, loadServedEmbed, loadServedVersion } from '@/lib/scoring/served';
 import { membershipChartSpec } from './chart-spec';
 import { DEFAULT_ACCENT, isHexColour, labelOn, nearestPassingAccent } from './contrast';
@@ -9,7 +10,7 @@ import { normalizeOrigin } from './origins';
 /** Everything the calculator page renders, or why it cannot. */
 export type CalculatorView =
   | { state: 'missing' }
-  | { state: 'unavailable'; theme: 'light' | 'dark'; token: string; hostOrigin: string | null }
+  | { state: 'unavailable'; theme: 'light' | 'dark'; token: string; hostOrigin: string | null; language: Language }
   | { state: 'ready'; props: CalculatorProps };
 
 export interface CalculatorProps {
@@ -25,17 +26,21 @@ export interface CalculatorProps {
   /** The host page's origin, when it is one of the embed's allowed origins: size messages go only there. */
   hostOrigin: string | null;
   chartSpec: object;
+  /** The language of the calculator's fixed texts and number formats, resolved for this visitor. */
+  language: Language;
 }
 
 /** Readable text on the accent colour: ink or white, whichever contrasts more (WCAG 2.1 ratio). */
 export const textOn = labelOn;
 
-export async function loadCalculatorView(token: string, host: string | undefined): Promise<CalculatorView> {
+/** `acceptLanguage` is the visitor's Accept-Language header, used when the publisher chose 'auto'. */
+export async function loadCalculatorView(token: string, host: string | undefined, acceptLanguage?: string | null): Promise<CalculatorView> {
   const embed = await loadServedEmbed(token);
   if (!embed) return { state: 'missing' };
   const requestedHost = host ? normalizeOrigin(host) : null;
   const hostOrigin = requestedHost && embed.allowedOrigins.includes(requestedHost) ? requestedHost : null;
-  const unavailable = { state: 'unavailable', theme: embed.theme, token: embed.token, hostOrigin } as const;
+  const language = resolveLanguage(embed.language, acceptLanguage);
+  const unavailable = { state: 'unavailable', theme: embed.theme, token: embed.token, hostOrigin, language } as const;
   if (!isServing(embed)) return unavailable;
   let version;
   try {
@@ -61,6 +66,7 @@ export async function loadCalculatorView(token: string, host: string | undefined
       threshold: embed.typicalityThreshold,
       hostOrigin,
       chartSpec: membershipChartSpec(clusters, embed.theme),
+      language,
     },
   };
 }

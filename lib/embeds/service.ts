@@ -7,6 +7,7 @@ import { invalidateEmbed } from '@/lib/scoring/served';
 import { Embed, MixtureModel, ModelVersion, sequelize, type User, type Workspace } from '@/models';
 import { assertCanPublish } from '@/lib/billing/limits';
 import { accentProblem, DEFAULT_ACCENT, isHexColour } from './contrast';
+import { LANGUAGE_SETTINGS } from '@/lib/i18n/languages';
 import { allowedOriginsSchema } from './origins';
 import { payloadChecksum, storedPayloadProblem, typicalitySampleFor, validatePayload, type VersionPayload } from './payload';
 
@@ -31,6 +32,7 @@ export const embedSettingsSchema = z
     theme: z.enum(['light', 'dark'], { error: 'Choose light or dark.' }),
     accentColor: z.string().regex(/^#[0-9a-fA-F]{6}$/, 'Use a colour like #2f6f5e.'),
     typicalityThreshold: z.number({ error: 'Enter a percentile between 0 and 50.' }).min(0, 'The threshold cannot be below 0 %.').max(50, 'Keep the threshold at 50 % or lower.'),
+    language: z.enum(LANGUAGE_SETTINGS, { error: "Choose English, German, French, Spanish or 'auto' (follow the visitor's browser)." }),
   })
   .partial()
   .strict();
@@ -156,7 +158,7 @@ export async function retireEmbed(acting: Acting, embedId: number): Promise<Embe
 export async function updateSettings(acting: Acting, embedId: number, settings: EmbedSettings): Promise<Embed> {
   const embed = await findEmbed(acting, embedId);
   if (embed.status === 'retired') throw new AppError('conflict', 'This calculator is retired.');
-  const before = { title: embed.title, allowedOrigins: [...embed.allowedOrigins], theme: embed.theme, accentColor: embed.accentColor, typicalityThreshold: embed.typicalityThreshold };
+  const before = { title: embed.title, allowedOrigins: [...embed.allowedOrigins], theme: embed.theme, accentColor: embed.accentColor, typicalityThreshold: embed.typicalityThreshold, language: embed.language };
   assertAccentReadable(settings, before);
   const changed = Object.fromEntries(Object.entries(settings).filter(([, v]) => v !== undefined));
   await embed.update(changed);
@@ -166,7 +168,7 @@ export async function updateSettings(acting: Acting, embedId: number, settings: 
   if (JSON.stringify(origins) !== JSON.stringify(before.allowedOrigins)) {
     await audit(acting, 'embed.origins', embed, { added: origins.filter((o) => !before.allowedOrigins.includes(o)), removed: before.allowedOrigins.filter((o) => !origins.includes(o)) });
   }
-  const others = (['title', 'theme', 'accentColor', 'typicalityThreshold'] as const).filter((k) => k in changed && embed[k] !== before[k]);
+  const others = (['title', 'theme', 'accentColor', 'typicalityThreshold', 'language'] as const).filter((k) => k in changed && embed[k] !== before[k]);
   if (others.length) {
     await audit(acting, 'embed.settings', embed, { changes: others.map((k) => ({ setting: k, from: before[k], to: embed[k] })) });
   }
@@ -210,6 +212,7 @@ export function describeEmbed(embed: Embed) {
     theme: embed.theme,
     accentColor: embed.accentColor,
     typicalityThreshold: embed.typicalityThreshold,
+    language: embed.language,
     disabledReason: embed.disabledReason,
     createdAt: embed.createdAt,
     updatedAt: embed.updatedAt,

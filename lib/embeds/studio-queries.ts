@@ -51,6 +51,7 @@ export async function calculatorDetail(workspaceId: number, id: number) {
       theme: embed.theme,
       accentColor: embed.accentColor,
       typicalityThreshold: embed.typicalityThreshold,
+      language: embed.language,
     },
     versions: versions.map((v) => ({ id: v.id, number: v.number, modelName: v.mixtureModelId ? (modelName.get(v.mixtureModelId) ?? 'a removed model') : '—', checksum: v.checksum, createdAt: v.createdAt.toISOString(), problem: storedPayloadProblem(v) })),
     models: models.map((m) => ({ id: m.id, name: m.name })),

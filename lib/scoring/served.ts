@@ -24,6 +24,8 @@ export interface ServedEmbed {
   typicalityThreshold: number;
   theme: 'light' | 'dark';
   accentColor: string;
+  /** The publisher's choice: a language code, or 'auto' to follow the visitor's browser. */
+  language: string;
   loadedAt: number;
 }
 
@@ -98,6 +100,7 @@ async function readServedEmbed(token: string, now: number): Promise<ServedEmbed 
     typicalityThreshold: embed.typicalityThreshold,
     theme: embed.theme === 'dark' ? 'dark' : 'light',
     accentColor: embed.accentColor,
+    language: embed.language ?? 'auto',
     loadedAt: now,
   };
   return served;

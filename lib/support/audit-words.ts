@@ -84,6 +84,7 @@ const SETTING_WORDS: Record<string, string> = {
   theme: 'theme',
   accentColor: 'accent colour',
   typicalityThreshold: 'unusual-values threshold (percentile)',
+  language: 'calculator language',
 };
 
 function valueWords(key: string, value: unknown): string {

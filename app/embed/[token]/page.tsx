@@ -1,4 +1,5 @@
 import type { Metadata } from 'next';
+import { headers } from 'next/headers';
 import { notFound } from 'next/navigation';
 import { Calculator } from '@/components/embed/Calculator';
 import { CalculatorFrame, CalculatorUnavailable } from '@/components/embed/CalculatorFrame';
@@ -21,12 +22,14 @@ export async function generateMetadata({ params }: Props): Promise<Metadata> {
 export default async function CalculatorPage({ params, searchParams }: Props) {
   const { token } = await params;
   const host = (await searchParams).host;
-  const view = await loadCalculatorView(token, typeof host === 'string' ? host : undefined);
+  // 'auto' calculators speak the visitor's language, read from the browser's Accept-Language.
+  const acceptLanguage = (await headers()).get('accept-language');
+  const view = await loadCalculatorView(token, typeof host === 'string' ? host : undefined, acceptLanguage);
   if (view.state === 'missing') notFound();
-  if (view.state === 'unavailable') return <CalculatorUnavailable theme={view.theme} token={view.token} hostOrigin={view.hostOrigin} />;
+  if (view.state === 'unavailable') return <CalculatorUnavailable theme={view.theme} token={view.token} hostOrigin={view.hostOrigin} language={view.language} />;
   const { props } = view;
   return (
-    <CalculatorFrame theme={props.theme} accent={props.accent} accentText={props.accentText}>
+    <CalculatorFrame theme={props.theme} accent={props.accent} accentText={props.accentText} language={props.language}>
       <Calculator {...props} />
     </CalculatorFrame>
   );

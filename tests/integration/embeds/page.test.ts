@@ -54,7 +54,7 @@ describe('what the calculator page renders', () => {
     const dark = await loadCalculatorView(embed.token, undefined);
     expect(dark.state === 'ready' && dark.props.theme).toBe('dark');
     await retireEmbed(acting(), embed.id);
-    expect(await loadCalculatorView(embed.token, undefined)).toEqual({ state: 'unavailable', theme: 'dark', token: embed.token, hostOrigin: null });
+    expect(await loadCalculatorView(embed.token, undefined)).toEqual({ state: 'unavailable', theme: 'dark', token: embed.token, hostOrigin: null, language: 'en' });
   });
 
   it('picks readable text for the accent colour', () => {

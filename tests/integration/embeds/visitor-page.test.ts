@@ -29,7 +29,7 @@ describe('the calculator page for visitors', () => {
   it('gives a switched-off calculator the host origin (only an allowed one), so the loader keeps its notice on screen', async () => {
     const { embed } = await publishNew(acting(), { mixtureModelId: ws.model.id, title: 'Retired', allowedOrigins: ['https://club.example'] });
     await retireEmbed(acting(), embed.id);
-    expect(await loadCalculatorView(embed.token, 'https://club.example')).toEqual({ state: 'unavailable', theme: 'light', token: embed.token, hostOrigin: 'https://club.example' });
+    expect(await loadCalculatorView(embed.token, 'https://club.example')).toEqual({ state: 'unavailable', theme: 'light', token: embed.token, hostOrigin: 'https://club.example', language: 'en' });
     expect(await loadCalculatorView(embed.token, 'https://copycat.example')).toMatchObject({ state: 'unavailable', hostOrigin: null });
   });
 });

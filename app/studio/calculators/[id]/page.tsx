@@ -93,7 +93,7 @@ export default async function CalculatorPage({ params }: { params: Promise<{ id:
             </div>
           </Section>
           <Section title="Settings" id="settings">
-            <SettingsForm embedId={embed.id} disabled={retired} initial={{ title: embed.title, allowedOrigins: embed.allowedOrigins, theme: embed.theme, accentColor: embed.accentColor, typicalityThreshold: embed.typicalityThreshold }} />
+            <SettingsForm embedId={embed.id} disabled={retired} initial={{ title: embed.title, allowedOrigins: embed.allowedOrigins, theme: embed.theme, accentColor: embed.accentColor, typicalityThreshold: embed.typicalityThreshold, language: embed.language }} />
           </Section>
           <Section title="Versions" id="versions">
             <VersionList embedId={embed.id} versions={versions} activeVersionId={embed.activeVersionId} models={models} currentModelId={embed.mixtureModelId} disabled={retired} calculatorStatus={embed.status} />
