@@ -148,8 +148,10 @@ describe('fair order across workspaces', () => {
 
   it('pauses a heavy fit between candidates so another workspace\'s fit starts, then resumes it to the result of an uninterrupted fit', async () => {
     process.env.PARTWISE_FIT_SLOTS = '1';
-    process.env.PARTWISE_FIT_SLICE_MS = '300';
-    const settings = { datasetId: aBigDataset, features: FEATURES, minComponents: 1, maxComponents: 6, covariances: ['full', 'diagonal'], restarts: 3, seed: 5 };
+    // A short slice and a fit long enough that it is still running when the other workspace's fit
+    // arrives, on a quiet machine as on a loaded one (12 candidates × 8 restarts at a tight tolerance).
+    process.env.PARTWISE_FIT_SLICE_MS = '100';
+    const settings = { datasetId: aBigDataset, features: FEATURES, minComponents: 1, maxComponents: 6, covariances: ['full', 'diagonal'], restarts: 8, seed: 5, tol: 1e-6, maxIter: 500 };
     const heavy = (await start(w.member.id, settings)).json.fit;
     const heavySeen: any[] = [];
     await waitFor(w.member.id, heavy.id, (f) => f.status === 'running' && f.progress?.phase === 'fitting', heavySeen);
@@ -183,7 +185,7 @@ describe('fair order across workspaces', () => {
     // Split over turns, the fit equals one computed in a single call with the same settings.
     const dataset = (await Dataset.findByPk(aBigDataset))!;
     const m = featureMatrix(dataset, FEATURES);
-    const engine = computeFit({ rows: m.rows, n: m.n, d: m.d, features: m.features.map((c) => ({ name: c.name, unit: c.unit || null })), components: [1, 2, 3, 4, 5, 6], covariances: ['full', 'diagonal'], restarts: 3, seed: 5, standardize: true, maxIter: 300, tol: 1e-4, regCovar: 1e-6 });
+    const engine = computeFit({ rows: m.rows, n: m.n, d: m.d, features: m.features.map((c) => ({ name: c.name, unit: c.unit || null })), components: [1, 2, 3, 4, 5, 6], covariances: ['full', 'diagonal'], restarts: 8, seed: 5, standardize: true, maxIter: 500, tol: 1e-6, regCovar: 1e-6 });
     const stored = ((await Fit.findByPk(heavy.id))!.result as any).candidates;
     expect(stored.map((c: any) => [c.components, c.covariance, c.rank, c.bic])).toEqual(engine.candidates.map((c) => [c.components, c.covariance, c.rank, c.bic]));
     stored.forEach((c: any, i: number) => expect(c.model).toEqual(engine.candidates[i].model));
