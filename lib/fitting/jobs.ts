@@ -107,21 +107,6 @@ export interface FitCheckpoint {
 
 const fmt = formatCount;
 
-/**
- * Fit creations of this process take turns for their cap transaction. Each Sequelize
- * transaction has a sqlite3 handle of its own that waits for SQLite's write lock inside
- * one of libuv's four pool threads; a burst of creations would fill them and starve
- * the transaction holding the lock. Correctness does not rest on this: the IMMEDIATE
- * transaction is what serialises creations, across processes too. (Redundant, and
- * removable, once models/db.ts queues every write transaction of a process.)
- */
-function inCapTurn<T>(work: () => Promise<T>): Promise<T> {
-  const turns = globalThis as unknown as { __partwiseFitCapTurn?: Promise<unknown> };
-  const run = (turns.__partwiseFitCapTurn ?? Promise.resolve()).then(work, work);
-  turns.__partwiseFitCapTurn = run.catch(() => {});
-  return run;
-}
-
 function queueCapError(plan: Plan, open: number, limit: number): AppError {
   const next = upgradeFor(plan, (p) => fitQueueLimit(p.id) > limit);
   return new AppError(
@@ -164,13 +149,12 @@ export async function startFit(workspaceId: number, userId: number, input: unkno
   const progress: FitProgressView = { phase: 'queued', candidates, restarts: params.restarts, maxIter: params.maxIter, fraction: 0, rows: matrix.n, updatedAt: new Date().toISOString() };
   const plan = await workspacePlan(workspaceId);
   const limit = fitQueueLimit(plan.id);
-  const fit = await inCapTurn(() =>
-    sequelize.transaction(async (transaction) => {
-      const open = await Fit.count({ where: { workspaceId, status: ['queued', 'running'] }, transaction });
-      if (open >= limit) throw queueCapError(plan, open, limit);
-      return Fit.create({ workspaceId, datasetId: dataset.id, createdById: userId, status: 'queued', params: stored as unknown as Record<string, unknown>, progress: progress as unknown as Record<string, unknown> }, { transaction });
-    }),
-  );
+  // Write transactions of one process already take turns (models/db.ts), so a burst of creations cannot starve the one holding the lock.
+  const fit = await sequelize.transaction(async (transaction) => {
+    const open = await Fit.count({ where: { workspaceId, status: ['queued', 'running'] }, transaction });
+    if (open >= limit) throw queueCapError(plan, open, limit);
+    return Fit.create({ workspaceId, datasetId: dataset.id, createdById: userId, status: 'queued', params: stored as unknown as Record<string, unknown>, progress: progress as unknown as Record<string, unknown> }, { transaction });
+  });
   pumpFits();
   return fit;
 }
