@@ -2,7 +2,8 @@ import Link from 'next/link';
 import type { InvoiceView } from '@/lib/billing/summary';
 import { formatDate as day, formatMoney as euros } from '@/lib/format';
 
-const STATUS_WORDS: Record<string, string> = { paid: 'Settled', open: 'Awaiting payment', void: 'Voided', uncollectible: 'Not collected', draft: 'Draft' };
+/** An invoice's state in the studio's words (the payment service's codes are not shown). */
+export const INVOICE_STATUS_WORDS: Record<string, string> = { paid: 'Settled', open: 'Awaiting payment', void: 'Voided', uncollectible: 'Not collected', draft: 'Draft' };
 
 const STATUS_STYLE: Record<string, string> = {
   paid: 'bg-moss-100 text-moss-900',
@@ -36,7 +37,7 @@ export function InvoiceTable({ invoices }: { invoices: InvoiceView[] }) {
               {day(i.periodStart)} – {day(i.periodEnd)}
             </td>
             <td className="py-2 pr-4">
-              <span className={`rounded-full px-2.5 py-0.5 text-xs font-bold ${STATUS_STYLE[i.status] ?? 'bg-paper-deep text-ink-soft'}`}>{STATUS_WORDS[i.status] ?? i.status}</span>
+              <span className={`rounded-full px-2.5 py-0.5 text-xs font-bold ${STATUS_STYLE[i.status] ?? 'bg-paper-deep text-ink-soft'}`}>{INVOICE_STATUS_WORDS[i.status] ?? i.status}</span>
             </td>
             <td className="py-2 pr-4 text-right tabular-nums">{euros(i.subtotal ?? i.amountDue, i.currency)}</td>
             <td className="py-2 text-right tabular-nums">

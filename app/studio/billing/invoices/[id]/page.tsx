@@ -4,14 +4,13 @@ import { notFound } from 'next/navigation';
 import { pageWorkspace } from '@/lib/auth/page';
 import { findInvoice } from '@/lib/billing/summary';
 import { AppError } from '@/lib/errors';
+import { INVOICE_STATUS_WORDS } from '@/components/billing/InvoiceTable';
 import { OwnerOnly } from '@/components/billing/OwnerOnly';
 import { PrintButton } from '@/components/billing/PrintButton';
 import { formatDate as day, formatMoney as euros } from '@/lib/format';
 
 export const metadata: Metadata = { title: 'Invoice' };
 export const dynamic = 'force-dynamic';
-
-const STATUS_WORDS: Record<string, string> = { paid: 'Settled', open: 'Awaiting payment', void: 'Voided', uncollectible: 'Not collected', draft: 'Draft' };
 
 /** One invoice with its lines, laid out to print (the studio's chrome is hidden on paper). */
 export default async function InvoicePage({ params }: { params: Promise<{ id: string }> }) {
@@ -54,7 +53,7 @@ export default async function InvoicePage({ params }: { params: Promise<{ id: st
       <dl className="mt-6 grid grid-cols-2 gap-x-6 gap-y-2 text-sm sm:grid-cols-3">
         <div>
           <dt className="text-ink-soft">Status</dt>
-          <dd className="font-bold">{STATUS_WORDS[invoice.status] ?? invoice.status}</dd>
+          <dd className="font-bold">{INVOICE_STATUS_WORDS[invoice.status] ?? invoice.status}</dd>
         </div>
         <div>
           <dt className="text-ink-soft">Issued</dt>
