@@ -6,7 +6,7 @@ import fs from 'node:fs';
 import { parseArgs } from 'node:util';
 import Papa from 'papaparse';
 import { DEFAULT_UNUSUAL_BELOW, MixtureError, parseModelJson, scoreRows } from '../lib/mixture';
-import { CliError, describeNotNumbers, describeSkipped, readCsvMatrix } from './lib/csv-table';
+import { CliError, describeNotNumbers, describeSkipped, readBytes, readCsvMatrix } from './lib/csv-table';
 
 export const USAGE = `Score the rows of a CSV file against a model saved by \`npm run fit\` or downloaded from the studio.
 
@@ -43,14 +43,7 @@ function main(argv: string[]): void {
   const [modelFile, csvFile] = positionals;
   const threshold = o['unusual-below'] === undefined ? DEFAULT_UNUSUAL_BELOW : Number(o['unusual-below']);
   if (!Number.isFinite(threshold) || threshold < 0 || threshold > 100) throw new CliError('--unusual-below must be a percentile 0..100');
-  let modelText: string;
-  try {
-    modelText = fs.readFileSync(modelFile, 'utf8');
-  } catch (e) {
-    const code = (e as NodeJS.ErrnoException).code;
-    throw new CliError(code === 'ENOENT' ? `cannot read ${modelFile}: no such file` : `cannot read ${modelFile}: ${(e as Error).message}`);
-  }
-  const model = parseModelJson(modelText);
+  const model = parseModelJson(Buffer.from(readBytes(modelFile)).toString('utf8'));
   const table = readCsvMatrix(csvFile, model.features.map((f) => f.name), { minCompleteRows: 0 });
   for (const line of describeNotNumbers(table)) process.stderr.write(`score: note: ${line}\n`);
   if (table.n < table.totalRows) process.stderr.write(`score: note: ${describeSkipped(table)}\n`);

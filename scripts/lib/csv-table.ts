@@ -23,7 +23,8 @@ export interface CsvMatrix {
   notNumbers: { column: string; count: number; examples: string[] }[];
 }
 
-function readBytes(file: string): Uint8Array {
+/** A file's bytes, or a one-line CliError naming the file ("no such file" for the common case). */
+export function readBytes(file: string): Uint8Array {
   try {
     return fs.readFileSync(file);
   } catch (e) {
