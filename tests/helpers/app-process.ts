@@ -3,6 +3,8 @@ import net from 'node:net';
 import path from 'node:path';
 import { randomBytes } from 'node:crypto';
 import type { ChildProcess } from 'node:child_process';
+import { QueryTypes } from 'sequelize';
+import { openSequelize } from '@/models/db';
 import { spawnAppServer } from '../../scripts/lib/app-process';
 import { run, waitForHttp } from '../../scripts/lib/run';
 
@@ -89,4 +91,14 @@ export async function startApp(dir: string, env: NodeJS.ProcessEnv, port?: numbe
     throw new Error(`${(e as Error).message}\n--- server log ---\n${app.log().slice(-3000)}`);
   }
   return app;
+}
+
+/** Read (or change) a test server's own database file from the test, on a connection of its own. */
+export async function queryApp<T extends object>(app: Pick<AppProcess, 'databasePath'>, sql: string): Promise<T[]> {
+  const db = openSequelize(app.databasePath);
+  try {
+    return await db.query<T>(sql, { type: QueryTypes.SELECT });
+  } finally {
+    await db.close();
+  }
 }

@@ -4,25 +4,16 @@
  * act on, nothing else is lost, and new fits run to the end.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { QueryTypes } from 'sequelize';
-import { openSequelize } from '@/models/db';
 import { DEMO_USERS } from '@/lib/demo/accounts';
 import { RESTART_REASON } from '@/lib/fitting/jobs';
-import { prepareDatabase, startApp, SYSTEM_SECRET, type AppProcess } from '../helpers/app-process';
+import { prepareDatabase, queryApp, startApp, SYSTEM_SECRET, type AppProcess } from '../helpers/app-process';
 
 let app: AppProcess | undefined;
 let cookie = '';
 let datasetId = 0;
 let features: string[] = [];
 
-async function query<T extends object>(sql: string): Promise<T[]> {
-  const db = openSequelize(app!.databasePath);
-  try {
-    return await db.query<T>(sql, { type: QueryTypes.SELECT });
-  } finally {
-    await db.close();
-  }
-}
+const query = <T extends object>(sql: string) => queryApp<T>(app!, sql);
 
 async function api(path: string, init: RequestInit = {}) {
   const res = await fetch(`${app!.url}${path}`, { ...init, headers: { cookie, 'content-type': 'application/json', origin: app!.url, ...(init.headers ?? {}) } });

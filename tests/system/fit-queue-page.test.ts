@@ -4,12 +4,10 @@
  * the fit form shows the plan's cap when the workspace has as many fits as it allows.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { QueryTypes } from 'sequelize';
 import type { Browser, Page } from 'playwright-core';
-import { openSequelize } from '@/models/db';
 import { DEMO_USERS } from '@/lib/demo/accounts';
 import { launchBrowser, screenshot } from '../helpers/browser';
-import { prepareDatabase, startApp, SYSTEM_SECRET, type AppProcess } from '../helpers/app-process';
+import { prepareDatabase, queryApp, startApp, SYSTEM_SECRET, type AppProcess } from '../helpers/app-process';
 
 let app: AppProcess | undefined;
 let browser: Browser | undefined;
@@ -18,14 +16,7 @@ let cookie = '';
 let datasetId = 0;
 let features: string[] = [];
 
-async function sql<T extends object>(text: string): Promise<T[]> {
-  const db = openSequelize(app!.databasePath);
-  try {
-    return await db.query<T>(text, { type: QueryTypes.SELECT });
-  } finally {
-    await db.close();
-  }
-}
+const sql = <T extends object>(sql: string) => queryApp<T>(app!, sql);
 
 type FitJson = { id: number; status: string; queuePosition: number | null; progress: { phase?: string } | null };
 async function api(path: string, init: RequestInit = {}) {
