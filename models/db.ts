@@ -8,14 +8,32 @@ import { Sequelize, Transaction } from 'sequelize';
  * concurrent readers never block and writers wait instead of failing at once.
  *
  * DATABASE_URL accepts `sqlite:relative/or/absolute/path.sqlite`, `file:path`, or a
- * plain path. The same Sequelize models run on PostgreSQL when the URL says so.
+ * plain path. Any other address (postgres://, mysql://, …) is refused with one clear
+ * message: this version runs on SQLite only, and reading such an address as a file name
+ * would quietly create a SQLite file in a folder named after the scheme.
  */
 export const DEFAULT_DATABASE_PATH = 'data/partwise.sqlite';
 export const BUSY_TIMEOUT_MS = Number(process.env.DB_BUSY_TIMEOUT_MS ?? 5000);
 
+export class UnsupportedDatabaseUrl extends Error {
+  constructor(readonly scheme: string) {
+    super(
+      `DATABASE_URL is a ${scheme}: address, which this version of Partwise cannot use: it runs on SQLite only. ` +
+        'Set DATABASE_URL to a SQLite file (a path, sqlite:path or file:path), or leave it unset for data/partwise.sqlite.',
+    );
+    this.name = 'UnsupportedDatabaseUrl';
+  }
+}
+
+/** A URL scheme at the start ("postgres:", "mysql:"); a path's own colons come after a slash. */
+const SCHEME = /^([a-z][a-z0-9+.-]*):/i;
+
 export function databasePath(url = process.env.DATABASE_URL): string {
   const raw = (url ?? '').trim() || DEFAULT_DATABASE_PATH;
-  const stripped = raw.replace(/^sqlite:(\/\/)?/, '').replace(/^file:(\/\/)?/, '');
+  const scheme = SCHEME.exec(raw)?.[1].toLowerCase();
+  // Only the scheme is named in the message: the rest may hold a password.
+  if (scheme && scheme !== 'sqlite' && scheme !== 'file') throw new UnsupportedDatabaseUrl(scheme);
+  const stripped = raw.replace(/^sqlite:(\/\/)?/i, '').replace(/^file:(\/\/)?/i, '');
   return path.resolve(/*turbopackIgnore: true*/ process.cwd(), stripped);
 }
 

@@ -31,4 +31,8 @@ async function main() {
     await sequelize.close();
   }
 }
-main();
+main().catch((e) => {
+  // A refused DATABASE_URL (or another setup error) is one line, not a stack.
+  console.error((e as Error).message);
+  process.exit(2);
+});

@@ -1,6 +1,6 @@
 import fs from 'node:fs';
 import path from 'node:path';
-import { openSequelize, databasePath } from '@/models/db';
+import { openSequelize, databasePath, UnsupportedDatabaseUrl } from '@/models/db';
 import { createMigrator } from '@/lib/db/migrator';
 import { buildIsStale } from './lib/build-state';
 import { spawnAppServer } from './lib/app-process';
@@ -19,7 +19,14 @@ async function main() {
   const dataDir = path.resolve(process.env.PARTWISE_DATA_DIR ?? 'data');
   fs.mkdirSync(dataDir, { recursive: true });
 
-  const file = databasePath();
+  let file: string;
+  try {
+    file = databasePath();
+  } catch (e) {
+    if (!(e instanceof UnsupportedDatabaseUrl)) throw e;
+    console.error(`[partwise] Refusing to start: ${e.message}`);
+    process.exit(2);
+  }
   const sequelize = openSequelize(file);
   try {
     const applied = await createMigrator(sequelize).up();
