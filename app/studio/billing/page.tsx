@@ -1,12 +1,10 @@
 import type { Metadata } from 'next';
 import { pageWorkspace } from '@/lib/auth/page';
 import { billingSummary, listInvoices } from '@/lib/billing/summary';
-import { AppError } from '@/lib/errors';
 import { PLANS } from '@/lib/plans';
 import { wantedPlan } from '@/lib/accounts/schemas';
 import { Section, StudioPage } from '@/components/studio/StudioPage';
 import { InvoiceTable } from '@/components/billing/InvoiceTable';
-import { OwnerOnly } from '@/components/billing/OwnerOnly';
 import { PlanChooser } from '@/components/billing/PlanChooser';
 import { SelfServiceButton } from '@/components/billing/SelfServiceButton';
 import { UsageMeters } from '@/components/billing/UsageMeters';
@@ -26,13 +24,8 @@ const STATUS_TEXT: Record<string, string> = {
 };
 
 export default async function BillingPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
-  let actor;
-  try {
-    actor = await pageWorkspace('owner', '/studio/billing');
-  } catch (e) {
-    if (e instanceof AppError && e.code === 'forbidden') return <OwnerOnly />;
-    throw e;
-  }
+  // A member is sent back to the studio with the owners-only notice (lib/auth/page.ts).
+  const actor = await pageWorkspace('owner', '/studio/billing');
   const [summary, invoices, alerts, params] = await Promise.all([billingSummary(actor.workspace.id), listInvoices(actor.workspace.id), recentScoringAlerts(actor.workspace.id), searchParams]);
   const { plan, subscription: sub } = summary;
   const cancelled = params.checkout === 'cancelled';

@@ -1,10 +1,8 @@
 import type { Metadata } from 'next';
 import { pageWorkspace } from '@/lib/auth/page';
-import { AppError } from '@/lib/errors';
 import { PLAN_IDS, PLANS } from '@/lib/plans';
 import { StudioPage } from '@/components/studio/StudioPage';
 import { CheckoutReturn } from '@/components/billing/CheckoutReturn';
-import { OwnerOnly } from '@/components/billing/OwnerOnly';
 
 export const metadata: Metadata = { title: 'Confirming payment' };
 export const dynamic = 'force-dynamic';
@@ -12,12 +10,8 @@ export const dynamic = 'force-dynamic';
 export default async function CheckoutReturnPage({ searchParams }: { searchParams: Promise<Record<string, string | string[] | undefined>> }) {
   const params = await searchParams;
   const sessionId = typeof params.session_id === 'string' ? params.session_id : '';
-  try {
-    await pageWorkspace('owner', `/studio/billing/return?session_id=${encodeURIComponent(sessionId)}`);
-  } catch (e) {
-    if (e instanceof AppError && e.code === 'forbidden') return <OwnerOnly />;
-    throw e;
-  }
+  // A member is sent back to the studio with the owners-only notice (lib/auth/page.ts).
+  await pageWorkspace('owner', `/studio/billing/return?session_id=${encodeURIComponent(sessionId)}`);
   const planNames = Object.fromEntries(PLAN_IDS.map((id) => [id, PLANS[id].name]));
   return (
     <StudioPage title="Checkout" trail={[{ href: '/studio/billing', label: 'Billing' }]}>

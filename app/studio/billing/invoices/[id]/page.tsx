@@ -4,8 +4,8 @@ import { notFound } from 'next/navigation';
 import { pageWorkspace } from '@/lib/auth/page';
 import { findInvoice } from '@/lib/billing/summary';
 import { AppError } from '@/lib/errors';
+import { parseDecimalId } from '@/lib/http/ids';
 import { INVOICE_STATUS_WORDS } from '@/components/billing/InvoiceTable';
-import { OwnerOnly } from '@/components/billing/OwnerOnly';
 import { PrintButton } from '@/components/billing/PrintButton';
 import { formatDate as day, formatMoney as euros } from '@/lib/format';
 
@@ -14,18 +14,13 @@ export const dynamic = 'force-dynamic';
 
 /** One invoice with its lines, laid out to print (the studio's chrome is hidden on paper). */
 export default async function InvoicePage({ params }: { params: Promise<{ id: string }> }) {
-  let actor;
-  try {
-    actor = await pageWorkspace('owner', '/studio/billing');
-  } catch (e) {
-    if (e instanceof AppError && e.code === 'forbidden') return <OwnerOnly />;
-    throw e;
-  }
+  // A member is sent back to the studio with the owners-only notice (lib/auth/page.ts).
+  const actor = await pageWorkspace('owner', '/studio/billing');
   const { id } = await params;
-  if (!/^[1-9]\d{0,15}$/.test(id)) notFound();
+  const invoiceId = parseDecimalId(id) ?? notFound();
   let invoice;
   try {
-    invoice = await findInvoice(actor.workspace.id, Number(id));
+    invoice = await findInvoice(actor.workspace.id, invoiceId);
   } catch (e) {
     if (e instanceof AppError && e.code === 'not_found') notFound();
     throw e;
