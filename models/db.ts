@@ -25,16 +25,16 @@ export class UnsupportedDatabaseUrl extends Error {
   }
 }
 
-/** A URL scheme at the start ("postgres:", "mysql:"); a path's own colons come after a slash. */
-const SCHEME = /^([a-z][a-z0-9+.-]*):/i;
+/** A URL scheme at the start ("postgres:", "mysql:") and its optional "//"; a path's own colons come after a slash. */
+const SCHEME = /^([a-z][a-z0-9+.-]*):(\/\/)?/i;
 
 export function databasePath(url = process.env.DATABASE_URL): string {
   const raw = (url ?? '').trim() || DEFAULT_DATABASE_PATH;
-  const scheme = SCHEME.exec(raw)?.[1].toLowerCase();
+  const prefix = SCHEME.exec(raw);
+  const scheme = prefix?.[1].toLowerCase();
   // Only the scheme is named in the message: the rest may hold a password.
   if (scheme && scheme !== 'sqlite' && scheme !== 'file') throw new UnsupportedDatabaseUrl(scheme);
-  const stripped = raw.replace(/^sqlite:(\/\/)?/i, '').replace(/^file:(\/\/)?/i, '');
-  return path.resolve(/*turbopackIgnore: true*/ process.cwd(), stripped);
+  return path.resolve(/*turbopackIgnore: true*/ process.cwd(), raw.slice(prefix?.[0].length ?? 0));
 }
 
 interface SqliteHandle {
