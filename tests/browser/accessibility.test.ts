@@ -187,6 +187,8 @@ describe('axe-core on the studio and the support console', () => {
     const page = await context.newPage();
     await page.goto(appUrl(`/studio/calculators/${settings.embedId}`));
     const accent = page.getByLabel('Accent colour');
+    // react-hook-form fills the fields when the form hydrates; a click before that would submit natively.
+    await expect.poll(() => accent.inputValue(), { timeout: 30_000 }).toBe('#2f6f5e');
     await accent.fill('#f0c763');
     await page.getByRole('button', { name: 'Save settings' }).click();
     const error = page.getByTestId('accent-error');
