@@ -3,6 +3,7 @@
  * Bad input: one line on stderr, exit code 2.
  */
 import fs from 'node:fs';
+import os from 'node:os';
 import { parseArgs } from 'node:util';
 import { CliError, describeNotNumbers, describeSkipped, readCsvMatrix } from './lib/csv-table';
 import {
@@ -40,7 +41,8 @@ options:
   --reg X                added to every covariance diagonal, in the fit's space (default 1e-6)
   --no-standardize       fit in the columns' own units instead of z-scores
   --units a=mm,b=g       units recorded with the features
-  --threads N            worker threads for a search (default 1)
+  --threads N            threads that share each EM pass (default: one per core);
+                         the model is the same to the last bit whatever N; 1 = this thread only
   -h, --help             this text
 `;
 
@@ -151,7 +153,7 @@ async function main(argv: string[]): Promise<void> {
     standardize: !o['no-standardize'],
     columnNames: table.names,
   };
-  const threads = int('threads', o.threads, 1) ?? 1;
+  const threads = int('threads', o.threads, 1) ?? os.availableParallelism();
   let engine: PassEngine = localEngine;
   let close = async () => {};
   if (threads > 1) {

@@ -1,10 +1,9 @@
 /**
  * A PassEngine that splits each EM pass across worker threads over SharedArrayBuffer
- * (Node only). The main thread takes the first slice itself, so `workers = 1` uses two
- * cores. Every thread runs the same top-level kernels (passFull / passDiag) as the
- * single-thread engine and the per-thread statistics are summed in a fixed order, so a
- * fit is deterministic for a given thread count (sums differ from one thread only by
- * floating-point rounding).
+ * (Node only). The main thread takes the first share itself, so `workers = 1` uses two
+ * cores. Work is shared out in the blocks of PASS_BLOCK_ROWS rows that the single-thread
+ * engine sums too: each block's statistics land in the block's own slot and are added in
+ * row order, so a fit is the same to the last bit whatever the thread count.
  *
  *   const engine = await createWorkerEngine(1);
  *   try { fitMixtureWith(rows, n, d, opts, engine) } finally { await engine.close() }
@@ -14,7 +13,7 @@
  */
 import path from 'node:path';
 import { MessageChannel, type MessagePort, Worker } from 'node:worker_threads';
-import { runKernel, scratchLength, statsLength } from '../mixture/estep';
+import { passBlocks, runKernelBlocks, scratchLength, statsLength, sumBlocks } from '../mixture/estep';
 import type { PassEngine } from '../mixture/em';
 import { packedSize } from '../mixture/linalg';
 import { type Factors, kernelArrays } from '../mixture/mstep';
@@ -39,10 +38,11 @@ interface Layout {
   centre: Float64Array;
   prune: Float64Array; // one value
   kernel: Float64Array; // one value
-  stats: Float64Array; // (workers + 1) blocks; block 0 = main thread
+  stats: Float64Array; // one slot per block of rows
   statsLength: number;
   scratch: Float64Array;
-  mainEnd: number;
+  blocks: number;
+  mainEndBlock: number;
 }
 
 export async function createWorkerEngine(workers = 1): Promise<WorkerEngine> {
@@ -98,8 +98,9 @@ export async function createWorkerEngine(workers = 1): Promise<WorkerEngine> {
     const kd = k * d;
     const paramsBuf = new SharedArrayBuffer((kd + factorLength + k + d + 2) * 8);
     const sl = statsLength(k, d, diagonal);
-    const statsBuf = new SharedArrayBuffer((workers + 1) * sl * 8);
-    const bounds = Array.from({ length: workers + 2 }, (_, i) => Math.round((i * n) / (workers + 1)));
+    const blocks = passBlocks(n);
+    const statsBuf = new SharedArrayBuffer(blocks * sl * 8);
+    const bounds = Array.from({ length: workers + 2 }, (_, i) => Math.round((i * blocks) / (workers + 1)));
     ports.forEach((p, w) => {
       const msg: WorkerConfig = {
         rows: rows.buffer as SharedArrayBuffer,
@@ -111,9 +112,8 @@ export async function createWorkerEngine(workers = 1): Promise<WorkerEngine> {
         diagonal,
         factorLength,
         statsLength: sl,
-        start: bounds[w + 1],
-        end: bounds[w + 2],
-        slot: w + 1,
+        firstBlock: bounds[w + 1],
+        endBlock: bounds[w + 2],
       };
       p.postMessage(msg);
     });
@@ -135,7 +135,8 @@ export async function createWorkerEngine(workers = 1): Promise<WorkerEngine> {
       stats: new Float64Array(statsBuf),
       statsLength: sl,
       scratch: new Float64Array(scratchLength(k, d)),
-      mainEnd: bounds[1],
+      blocks,
+      mainEndBlock: bounds[1],
     };
   }
 
@@ -159,15 +160,9 @@ export async function createWorkerEngine(workers = 1): Promise<WorkerEngine> {
       L.prune[0] = f.prune;
       L.kernel[0] = f.kernel;
       dispatch(CMD_PASS);
-      const mine = L.stats.subarray(0, L.statsLength);
-      mine.fill(0);
-      runKernel(f.kernel, rows, 0, L.mainEnd, d, k, L.means, L.factors, L.logConst, L.centre, f.prune, L.scratch, mine);
+      runKernelBlocks(f.kernel, rows, 0, L.mainEndBlock, n, d, k, L.means, L.factors, L.logConst, L.centre, f.prune, L.scratch, L.stats, L.statsLength);
       join();
-      out.fill(0);
-      for (let w = 0; w <= workers; w++) {
-        const o = w * L.statsLength;
-        for (let i = 0; i < L.statsLength; i++) out[i] += L.stats[o + i];
-      }
+      sumBlocks(L.stats, L.blocks, L.statsLength, out);
     },
     async close() {
       dispatch(CMD_EXIT);

@@ -13,14 +13,14 @@ export const CONTROL_WORDS = 4;
 export interface WorkerConfig {
   rows: SharedArrayBuffer;
   params: SharedArrayBuffer; // means (K·d) | kernel factors | kernel constants (K) | centre (d) | prune (1) | kernel id (1)
-  stats: SharedArrayBuffer; // one stats block per worker
+  stats: SharedArrayBuffer; // one stats slot per block of PASS_BLOCK_ROWS rows
   n: number;
   d: number;
   k: number;
   diagonal: boolean;
   factorLength: number;
   statsLength: number;
-  start: number;
-  end: number;
-  slot: number; // which stats block is this worker's
+  /** This worker's blocks of rows: [firstBlock, endBlock). */
+  firstBlock: number;
+  endBlock: number;
 }

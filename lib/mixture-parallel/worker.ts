@@ -1,9 +1,9 @@
 /**
  * Worker thread: waits on the control word, runs the same top-level pass functions as
- * the single-thread engine (lib/mixture/estep.ts) on its slice of the shared rows.
+ * the single-thread engine (lib/mixture/estep.ts) on its blocks of the shared rows.
  */
 import { parentPort, receiveMessageOnPort, workerData, type MessagePort } from 'node:worker_threads';
-import { runKernel, scratchLength } from '../mixture/estep';
+import { runKernelBlocks, scratchLength } from '../mixture/estep';
 import { CMD_CONFIG, CMD_EXIT, CMD_PASS, COMMAND, DONE, FAILED, SEQ, type WorkerConfig } from './protocol';
 
 const { control, port } = workerData as { control: SharedArrayBuffer; port: MessagePort };
@@ -37,15 +37,14 @@ function configure(): void {
   centre = new Float64Array(c.params, (kd + c.factorLength + c.k) * 8, c.d);
   prune = new Float64Array(c.params, (kd + c.factorLength + c.k + c.d) * 8, 1);
   kernel = new Float64Array(c.params, (kd + c.factorLength + c.k + c.d + 1) * 8, 1);
-  stats = new Float64Array(c.stats, c.slot * c.statsLength * 8, c.statsLength);
+  stats = new Float64Array(c.stats);
   scratch = new Float64Array(scratchLength(c.k, c.d));
 }
 
 function pass(): void {
   const c = cfg;
   if (c === null) throw new Error('pass before configuration');
-  stats.fill(0);
-  runKernel(kernel[0], x, c.start, c.end, c.d, c.k, means, factors, logConst, centre, prune[0], scratch, stats);
+  runKernelBlocks(kernel[0], x, c.firstBlock, c.endBlock, c.n, c.d, c.k, means, factors, logConst, centre, prune[0], scratch, stats, c.statsLength);
 }
 
 let seen = Atomics.load(ctrl, SEQ);

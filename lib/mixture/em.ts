@@ -9,7 +9,7 @@
  * scikit-learn's GaussianMixture uses, so fixed-start runs can be compared.)
  */
 import { MixtureError } from './errors';
-import { runKernel, scratchLength, statsLength } from './estep';
+import { passBlocks, runKernelBlocks, scratchLength, statsLength, sumBlocks } from './estep';
 import { type InitMethod, initialGaussians } from './init';
 import { blockToMatrix } from './linalg';
 import { allocFactors, allocGaussians, cloneGaussians, type Factors, finishMStep, kernelArrays, prepareFactors } from './mstep';
@@ -104,12 +104,18 @@ export interface PassEngine {
 
 export const DEFAULT_PRUNE = 1e-15;
 
+// Reused across passes: one block of sums per PASS_BLOCK_ROWS rows.
+let localBlockStats = new Float64Array(0);
+
 export const localEngine: PassEngine = {
   run(x, n, d, g, f, stats) {
-    stats.fill(0);
     const scratch = new Float64Array(scratchLength(g.k, d));
     const a = kernelArrays(f);
-    runKernel(f.kernel, x, 0, n, d, g.k, g.means, a.factors, a.consts, f.centre, f.prune, scratch, stats);
+    const sl = statsLength(g.k, d, f.diagonal);
+    const blocks = passBlocks(n);
+    if (localBlockStats.length < blocks * sl) localBlockStats = new Float64Array(blocks * sl);
+    runKernelBlocks(f.kernel, x, 0, blocks, n, d, g.k, g.means, a.factors, a.consts, f.centre, f.prune, scratch, localBlockStats, sl);
+    sumBlocks(localBlockStats, blocks, sl, stats);
   },
 };
 

@@ -419,6 +419,52 @@ export function runKernel(
 }
 
 /**
+ * Rows per block of the E-step sums. Every engine sums each block on its own and adds the
+ * blocks in row order, so a fit is the same to the last bit whatever the thread count:
+ * threads only decide who computes which blocks, never how the sums are grouped.
+ */
+export const PASS_BLOCK_ROWS = 2048;
+
+export function passBlocks(n: number): number {
+  return Math.max(1, Math.ceil(n / PASS_BLOCK_ROWS));
+}
+
+/** runKernel over blocks [firstBlock, endBlock), each into its own slot of `blockStats` (blocks × sl). */
+export function runKernelBlocks(
+  kernel: number,
+  x: Float64Array,
+  firstBlock: number,
+  endBlock: number,
+  n: number,
+  d: number,
+  k: number,
+  means: Float64Array,
+  factors: Float64Array,
+  consts: Float64Array,
+  centre: Float64Array,
+  prune: number,
+  scratch: Float64Array,
+  blockStats: Float64Array,
+  sl: number,
+): void {
+  for (let b = firstBlock; b < endBlock; b++) {
+    const stats = blockStats.subarray(b * sl, (b + 1) * sl);
+    stats.fill(0);
+    const start = b * PASS_BLOCK_ROWS;
+    runKernel(kernel, x, start, Math.min(n, start + PASS_BLOCK_ROWS), d, k, means, factors, consts, centre, prune, scratch, stats);
+  }
+}
+
+/** out[0..sl) = Σ over blocks in order (the one grouping of the sums every engine uses). */
+export function sumBlocks(blockStats: Float64Array, blocks: number, sl: number, out: Float64Array): void {
+  out.fill(0);
+  for (let b = 0; b < blocks; b++) {
+    const o = b * sl;
+    for (let i = 0; i < sl; i++) out[i] += blockStats[o + i];
+  }
+}
+
+/**
  * Diagonal (or spherical) structure pass. `factors` holds 1/σ_kj (K·d).
  */
 export function passDiag(

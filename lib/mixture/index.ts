@@ -18,6 +18,7 @@ export {
 export type { InitMethod } from './init';
 export { selectMixture, selectMixtureWith, candidateGrid, fitCandidate, rankCandidates, type GridEntry, type Candidate, type CandidateProgress, type Selection, type SelectOptions } from './select';
 export { fitScaler, type ScalerParams } from './scaler';
+export { PASS_BLOCK_ROWS } from './estep';
 export {
   scoreRow,
   scoreRows,

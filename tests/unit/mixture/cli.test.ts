@@ -4,8 +4,8 @@ import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
-import { fitMixture, parseModelJson } from '../../../lib/mixture';
-import { flat, loadIris } from './helpers';
+import { fitMixture, parseModelJson, PASS_BLOCK_ROWS } from '../../../lib/mixture';
+import { flat, loadIris, synthBlobs } from './helpers';
 
 const ROOT = path.resolve(__dirname, '../../..');
 const TSX = path.join(ROOT, 'node_modules/.bin/tsx');
@@ -43,6 +43,24 @@ describe('fit and score CLI', () => {
     expect(lines).toHaveLength(151);
     const cells = lines[1].split(',').map(Number);
     expect(cells[1] + cells[2] + cells[3]).toBeCloseTo(1, 12);
+  });
+
+  it('gives the same model whatever the thread count, one per core by default', () => {
+    // Several blocks of PASS_BLOCK_ROWS rows, so the threads really share the passes.
+    const { x } = synthBlobs(3, 3 * PASS_BLOCK_ROWS + 500, 3, 5);
+    const lines = ['a,b,c'];
+    for (let r = 0; r < x.length / 3; r++) lines.push(`${x[3 * r]},${x[3 * r + 1]},${x[3 * r + 2]}`);
+    const csv = write('blobs.csv', lines.join('\n'));
+    const args = [csv, '--components', '3', '--seed', '4', '--tol', '1e-8', '--max-iter', '300'];
+    const fits = [['--threads', '1'], ['--threads', '3'], []].map((extra) => run('fit', [...args, ...extra]));
+    for (const f of fits) expect(f.code, f.err).toBe(0);
+    const [one, three, byDefault] = fits.map((f) => parseModelJson(f.out));
+    for (const other of [three, byDefault]) {
+      expect(other.logLikelihood).toBe(one.logLikelihood);
+      expect(other.means).toEqual(one.means);
+      expect(other.covariances).toEqual(one.covariances);
+      expect(other.weights).toEqual(one.weights);
+    }
   });
 
   it('ranks a grid of candidates by BIC with --components 1-4 --covariance all', () => {
