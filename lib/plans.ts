@@ -68,6 +68,17 @@ export const ANSWER_ALERT_THRESHOLDS = [0.8, 1] as const;
  */
 export const FIT_QUEUE_LIMITS: Record<PlanId, number> = { sketch: 2, bench: 4, lab: 10 };
 
+/**
+ * Rows one batch-scoring request may send (POST /api/v1/calculators/{id}/scores). Each
+ * row is one metered answer, so a batch also needs that many answers left this month.
+ */
+export const BATCH_ROWS_PER_REQUEST: Record<PlanId, number> = { sketch: 500, bench: 10_000, lab: 100_000 };
+
+/** Bytes a batch body may have: room for the plan's rows at a generous width per row. */
+export function batchBodyBytes(plan: PlanId): number {
+  return 64 * 1024 + BATCH_ROWS_PER_REQUEST[plan] * 512;
+}
+
 export function fitQueueLimit(plan: PlanId): number {
   return FIT_QUEUE_LIMITS[plan];
 }
