@@ -184,3 +184,13 @@ export async function embedHourlyAnswers(embedId: number, since: Date): Promise<
   });
   return rows.map((r) => ({ period: r.period, count: r.count }));
 }
+
+/** Count `count` answers of an embed at once (a scored batch: one answer per row). */
+export function recordAnswers(embed: { id: number; workspaceId: number }, count: number): void {
+  if (count <= 0) return;
+  const periods = periodsNow(Date.now());
+  add(embed.id, embed.workspaceId, 'month', periods.month, count);
+  add(embed.id, embed.workspaceId, 'hour', periods.hour, count);
+  schedule();
+}
+

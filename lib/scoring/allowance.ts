@@ -107,6 +107,23 @@ export function reserveAnswer(ledger: AnswerLedger): boolean {
   return true;
 }
 
+/** Take `count` places at once, or none: a batch is answered whole or refused whole. */
+export function reserveAnswers(ledger: AnswerLedger, count: number): boolean {
+  if (ledger.used + count > ledger.pauseAt) return false;
+  ledger.used += count;
+  return true;
+}
+
+/** Give back the places of a batch that was not answered after all. */
+export function releaseAnswers(ledger: AnswerLedger, count: number): void {
+  ledger.used = Math.max(0, ledger.used - count);
+}
+
+/** Answers still free before the pause line. */
+export function answersLeft(ledger: AnswerLedger): number {
+  return Math.max(0, ledger.pauseAt - ledger.used);
+}
+
 /** Give a place back (the answer was not given after all). */
 export function releaseAnswer(ledger: AnswerLedger): void {
   ledger.used = Math.max(0, ledger.used - 1);

@@ -1,0 +1,93 @@
+import { Embed, Workspace } from '@/models';
+import { AppError } from '@/lib/errors';
+import { formatCount } from '@/lib/format';
+import { readBytesCapped, readTextCapped } from '@/lib/http/body';
+import { batchBodyBytes, BATCH_ROWS_PER_REQUEST } from '@/lib/plans';
+import { recordAnswers } from '@/lib/usage';
+import { answersLeft, readyLedger, releaseAnswers, reserveAnswers, waitForLedger, type AnswerLedger } from './allowance';
+import { batchCsvBlocks, batchJsonBlocks, parseBatchCsv, parseBatchJson, scoreBatch, textStream, type BatchRows } from './batch';
+import { loadServedVersion } from './served';
+
+/**
+ * A batch of rows scored for a workspace's calculator (the key-authenticated route
+ * POST /api/v1/calculators/{id}/scores). One metered answer per row, against the same
+ * monthly allowance as visitors' answers: a batch that does not fit in what is left is
+ * refused whole, before anything is scored or counted. Visitor insight does not count
+ * batches; it describes the calculator's visitors.
+ */
+export type BatchFormat = 'csv' | 'json';
+
+export interface BatchRequest {
+  workspaceId: number;
+  embedId: number;
+  /** The body as sent, read here with the plan's size cap. */
+  body: ReadableStream<Uint8Array> | null;
+  contentType: string;
+  format: BatchFormat;
+}
+
+export interface BatchAnswer {
+  stream: ReadableStream<Uint8Array>;
+  contentType: string;
+  rows: number;
+  version: number;
+}
+
+async function ledgerOf(workspaceId: number): Promise<AnswerLedger> {
+  const read = await waitForLedger(workspaceId);
+  return readyLedger(workspaceId) ?? read;
+}
+
+export async function scoreBatchRequest(req: BatchRequest): Promise<BatchAnswer> {
+  const embed = await Embed.findOne({ where: { id: req.embedId, workspaceId: req.workspaceId } });
+  if (!embed) throw new AppError('not_found', 'There is no such calculator in this workspace.');
+  const workspace = await Workspace.findByPk(req.workspaceId, { attributes: ['id', 'suspendedAt'] });
+  if (embed.status !== 'active' || !workspace || workspace.suspendedAt !== null || embed.activeVersionId === null) {
+    throw new AppError('conflict', embed.status === 'disabled' ? 'This calculator is disabled by Partwise support, so it scores nothing.' : 'This calculator serves no version right now, so it scores nothing.');
+  }
+  const ledger = await ledgerOf(req.workspaceId);
+  const maxRows = BATCH_ROWS_PER_REQUEST[ledger.plan];
+  const maxBytes = batchBodyBytes(ledger.plan);
+  const tooLarge = () => new AppError('payload_too_large', `The body is larger than ${formatCount(maxBytes / 1024 / 1024)} MB, the most a batch may send on your plan.`);
+  const version = await loadServedVersion(embed.activeVersionId);
+
+  let rows: BatchRows;
+  const type = req.contentType.split(';')[0].trim().toLowerCase();
+  if (type === 'text/csv') {
+    rows = parseBatchCsv(await readTextCapped(req.body, maxBytes, tooLarge), version, maxRows);
+  } else if (type === 'application/json') {
+    const bytes = await readBytesCapped(req.body, maxBytes, tooLarge);
+    let body: unknown;
+    try {
+      body = JSON.parse(new TextDecoder().decode(bytes));
+    } catch {
+      throw new AppError('bad_request', 'The body is not valid JSON.');
+    }
+    rows = parseBatchJson(body, version, maxRows);
+  } else {
+    throw new AppError('unsupported_media_type', 'Send the rows as text/csv (a header naming the fields) or application/json ({"rows": [...]}).');
+  }
+
+  // The check and the reservation in one synchronous step, like a visitor's answer.
+  const current = readyLedger(req.workspaceId) ?? ledger;
+  if (!reserveAnswers(current, rows.n)) {
+    throw new AppError('plan_limit', `This batch has ${formatCount(rows.n)} rows, and ${formatCount(answersLeft(current))} answers are left this month on your plan. Nothing was scored; send fewer rows or move to a larger plan.`);
+  }
+  let scored;
+  try {
+    scored = scoreBatch(version, rows, embed.typicalityThreshold);
+  } catch (error) {
+    releaseAnswers(current, rows.n);
+    throw error;
+  }
+  recordAnswers(embed, rows.n);
+  const blocks = req.format === 'csv' ? batchCsvBlocks(version, scored) : batchJsonBlocks(version, scored);
+  return { stream: textStream(blocks), contentType: req.format === 'csv' ? 'text/csv; charset=utf-8' : 'application/json; charset=utf-8', rows: rows.n, version: version.number };
+}
+
+/** The answer's format: `?format=` first, then the Accept header; JSON unless CSV is asked for. */
+export function batchFormat(query: string | null, accept: string | null): BatchFormat {
+  if (query === 'csv' || query === 'json') return query;
+  if (query !== null) throw new AppError('invalid_input', 'format must be csv or json.', { issues: [{ field: 'format', message: 'Use csv or json.' }] });
+  return accept && /\btext\/csv\b/i.test(accept) && !/\bapplication\/json\b/i.test(accept) ? 'csv' : 'json';
+}
