@@ -54,9 +54,10 @@ async function datasetOf(workspaceId: number, mixtureModelId: number | null): Pr
   if (!model) return { reason: 'the model it was published from has been deleted' };
   const fit = model.fitId ? await Fit.findOne({ where: { id: model.fitId, workspaceId }, attributes: ['id', 'datasetId'] }) : null;
   const datasetId = fit?.datasetId ?? model.datasetId;
-  if (!datasetId) return { reason: 'its model records no dataset' };
+  // deleting a dataset clears its models' links to it and to its fits (lib/datasets deleteDataset)
+  if (!datasetId) return { reason: 'the dataset it was fitted to is no longer in the workspace' };
   const dataset = await Dataset.findOne({ where: { id: datasetId, workspaceId } });
-  if (!dataset) return { reason: 'the dataset it was fitted to has been deleted' };
+  if (!dataset) return { reason: 'the dataset it was fitted to is no longer in the workspace' };
   return { dataset };
 }
 
