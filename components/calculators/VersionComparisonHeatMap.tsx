@@ -1,5 +1,5 @@
 'use client';
-import { useCallback, useRef } from 'react';
+import { useCallback, useEffect, useRef, useState } from 'react';
 import { VegaChart } from '@/components/charts/VegaChart';
 import { formatCount } from '@/lib/format';
 
@@ -27,8 +27,22 @@ function uniqueNames(groups: Group[]): string[] {
 export function VersionComparisonHeatMap({ fromNumber, toNumber, fromGroups, toGroups, counts, partnerOf }: { fromNumber: number; toNumber: number; fromGroups: Group[]; toGroups: Group[]; counts: number[][]; partnerOf: (number | null)[] }) {
   const wrapper = useRef<HTMLDivElement>(null);
   const markReady = useCallback(() => wrapper.current?.setAttribute('data-chart-ready', 'true'), []);
+  // On a phone the column names are slanted so they do not run into each other.
+  const [narrow, setNarrow] = useState(false);
+  useEffect(() => {
+    const query = window.matchMedia('(max-width: 640px)');
+    setNarrow(query.matches);
+    const change = () => setNarrow(query.matches);
+    query.addEventListener('change', change);
+    return () => query.removeEventListener('change', change);
+  }, []);
   const fromNames = uniqueNames(fromGroups);
   const toNames = uniqueNames(toGroups);
+  // Rows in the older side's order, columns in the order of their partners, so matched cells run down the diagonal;
+  // groups without a partner come last.
+  const partnered = partnerOf.filter((j): j is number => j !== null);
+  const toOrder = [...partnered, ...toGroups.map((_, j) => j).filter((j) => !partnered.includes(j))];
+  const fromOrder = [...fromGroups.keys()].sort((a, b) => Number(partnerOf[a] === null) - Number(partnerOf[b] === null));
   const max = Math.max(1, ...counts.flat());
   const values = counts.flatMap((row, i) =>
     row.map((count, j) => ({ from: fromNames[i], to: toNames[j], count, shown: formatCount(count), matched: partnerOf[i] === j, dark: count > max * 0.55 })),
@@ -40,8 +54,8 @@ export function VersionComparisonHeatMap({ fromNumber, toNumber, fromGroups, toG
     width: 'container',
     height: Math.max(120, 44 * fromNames.length),
     encoding: {
-      x: { field: 'to', type: 'nominal', title: toTitle, sort: toNames, axis: { orient: 'top', labelAngle: 0, labelLimit: 140, labelPadding: 6 } },
-      y: { field: 'from', type: 'nominal', title: fromTitle, sort: fromNames, axis: { labelLimit: 160, labelPadding: 6 } },
+      x: { field: 'to', type: 'nominal', title: toTitle, sort: toOrder.map((j) => toNames[j]), axis: narrow ? { orient: 'top', labelAngle: -40, labelAlign: 'left', labelLimit: 120, labelPadding: 4 } : { orient: 'top', labelAngle: 0, labelLimit: 140, labelPadding: 6 } },
+      y: { field: 'from', type: 'nominal', title: fromTitle, sort: fromOrder.map((i) => fromNames[i]), axis: { labelLimit: narrow ? 90 : 160, labelPadding: 6 } },
     },
     layer: [
       {
@@ -74,17 +88,17 @@ export function VersionComparisonHeatMap({ fromNumber, toNumber, fromGroups, toG
         <thead>
           <tr>
             <th scope="col">v{fromNumber} \ v{toNumber}</th>
-            {toNames.map((n) => (
-              <th key={n} scope="col">{n}</th>
+            {toOrder.map((j) => (
+              <th key={toNames[j]} scope="col">{toNames[j]}</th>
             ))}
           </tr>
         </thead>
         <tbody>
-          {counts.map((row, i) => (
+          {fromOrder.map((i) => (
             <tr key={fromNames[i]}>
               <th scope="row">{fromNames[i]}</th>
-              {row.map((c, j) => (
-                <td key={toNames[j]}>{formatCount(c)}</td>
+              {toOrder.map((j) => (
+                <td key={toNames[j]}>{formatCount(counts[i][j])}</td>
               ))}
             </tr>
           ))}

@@ -1,11 +1,16 @@
 import type { GroupRef, VersionComparison } from '@/lib/embeds/version-compare';
-import { formatFixed, formatNumber, formatPercent } from '@/lib/format';
+import { decimalsFor, formatFixed, formatNumber, formatPercent } from '@/lib/format';
 
-/** "+0.5", "−12", "0": a shift with its sign, about two significant digits. */
-function signed(v: number, digits = 2): string {
-  const text = formatNumber(v, digits);
-  return v > 0 && text !== '0' ? `+${text}` : text;
+/**
+ * A shift with its sign, to the precision of the numbers it is the difference of (the
+ * means are shown with three significant digits): 24.6 − 24.1 → "+0.5", 1,051 − 1,054 → "−3".
+ */
+function signed(shift: number, decimals: number): string {
+  const text = formatFixed(shift, decimals);
+  return shift > 0 && /[1-9]/.test(text) ? `+${text}` : text;
 }
+
+const meanDecimals = (a: number, b: number) => Math.min(decimalsFor(a, 3), decimalsFor(b, 3));
 
 export function GroupName({ group }: { group: Pick<GroupRef, 'label' | 'color'> }) {
   return (
@@ -46,12 +51,12 @@ export function VersionComparisonTable({ comparison }: { comparison: VersionComp
               <td className="py-2 pr-3"><GroupName group={p.from} /></td>
               <td className="py-2 pr-3"><GroupName group={p.to} /></td>
               <td className="py-2 pr-3 text-right tabular-nums">
-                <span className="font-bold">{signed(p.weight.shift * 100, 2)} pts</span>
+                <span className="font-bold">{signed(p.weight.shift * 100, 1)} pts</span>
                 <span className="block text-xs text-ink-soft">{formatPercent(p.weight.from, 1)} → {formatPercent(p.weight.to, 1)}</span>
               </td>
               {p.meanShifts.map((m) => (
                 <td key={m.feature} className="py-2 pr-3 text-right tabular-nums">
-                  <span className="font-bold">{signed(m.shift)}{m.unit ? ` ${m.unit}` : ''}</span>
+                  <span className="font-bold">{signed(m.shift, meanDecimals(m.from, m.to))}{m.unit ? ` ${m.unit}` : ''}</span>
                   <span className="block text-xs text-ink-soft">{formatNumber(m.from)} → {formatNumber(m.to)}</span>
                 </td>
               ))}
