@@ -27,7 +27,7 @@ function uniqueNames(groups: Group[]): string[] {
 export function VersionComparisonHeatMap({ fromNumber, toNumber, fromGroups, toGroups, counts, partnerOf }: { fromNumber: number; toNumber: number; fromGroups: Group[]; toGroups: Group[]; counts: number[][]; partnerOf: (number | null)[] }) {
   const wrapper = useRef<HTMLDivElement>(null);
   const markReady = useCallback(() => wrapper.current?.setAttribute('data-chart-ready', 'true'), []);
-  // On a phone the column names are slanted so they do not run into each other.
+  // On a phone the column names stand upright so they neither run into each other nor squeeze the grid.
   const [narrow, setNarrow] = useState(false);
   useEffect(() => {
     const query = window.matchMedia('(max-width: 640px)');
@@ -54,7 +54,7 @@ export function VersionComparisonHeatMap({ fromNumber, toNumber, fromGroups, toG
     width: 'container',
     height: Math.max(120, 44 * fromNames.length),
     encoding: {
-      x: { field: 'to', type: 'nominal', title: toTitle, sort: toOrder.map((j) => toNames[j]), axis: narrow ? { orient: 'top', labelAngle: -40, labelAlign: 'left', labelLimit: 120, labelPadding: 4 } : { orient: 'top', labelAngle: 0, labelLimit: 140, labelPadding: 6 } },
+      x: { field: 'to', type: 'nominal', title: toTitle, sort: toOrder.map((j) => toNames[j]), axis: narrow ? { orient: 'top', labelAngle: -90, labelAlign: 'left', labelBaseline: 'middle', labelLimit: 130, labelPadding: 4 } : { orient: 'top', labelAngle: 0, labelLimit: 140, labelPadding: 6 } },
       y: { field: 'from', type: 'nominal', title: fromTitle, sort: fromOrder.map((i) => fromNames[i]), axis: { labelLimit: narrow ? 90 : 160, labelPadding: 6 } },
     },
     layer: [
@@ -72,7 +72,7 @@ export function VersionComparisonHeatMap({ fromNumber, toNumber, fromGroups, toG
         },
       },
       {
-        mark: { type: 'text', fontSize: 13, fontWeight: 700 },
+        mark: { type: 'text', fontSize: narrow ? 11 : 13, fontWeight: 700 },
         encoding: {
           text: { field: 'shown' },
           color: { condition: { test: 'datum.dark', value: '#ffffff' }, value: '#1d2330' },
