@@ -18,8 +18,10 @@ export async function seedDemo(): Promise<void> {
   const dataset = (await m.Dataset.findOne({ where: { workspaceId: workspace.id }, order: [['id', 'ASC']] }))!;
   const { seedDemoModel } = await import('@/lib/demo/model');
   const { seedDemoCalculator } = await import('@/lib/demo/calculator');
+  const { seedDemoSecondVersion } = await import('@/lib/demo/second-version');
   await seedDemoModel({ workspace, owner, dataset });
   await seedDemoCalculator({ workspace, owner });
+  await seedDemoSecondVersion({ workspace, owner });
 }
 
 async function seedAccountsAndData(m: typeof import('@/models')) {

@@ -1,4 +1,5 @@
 'use client';
+import Link from 'next/link';
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import { ErrorNote } from '@/components/studio/StudioPage';
@@ -22,6 +23,12 @@ export function VersionList({ embedId, versions, activeVersionId, models, curren
   const [error, setError] = useState<ApiFailure | null>(null);
   const [busy, setBusy] = useState(false);
   const [modelId, setModelId] = useState<number>(currentModelId ?? models[0]?.id ?? 0);
+  /** The version whose Serve button was pressed, waiting for "Compare first" or "Serve now". */
+  const [confirming, setConfirming] = useState<number | null>(null);
+  const served = versions.find((v) => v.id === activeVersionId) ?? null;
+  // Comparing needs a sound served version; with none (or a damaged one) serving is the repair, so it goes straight through.
+  const comparable = served !== null && !served.problem;
+  const compareHref = (v: Version) => `/studio/calculators/${embedId}/compare?from=${served?.id}&to=${v.id}`;
 
   async function run(url: string, method: string, body: unknown) {
     setBusy(true);
@@ -65,10 +72,26 @@ export function VersionList({ embedId, versions, activeVersionId, models, curren
                   <span className={`rounded-full px-3 py-1 text-xs font-bold ${calculatorStatus === 'active' ? 'bg-moss-100 text-moss-700' : 'bg-paper-deep text-ink-soft'}`}>{servedVersionWords(calculatorStatus)}</span>
                 ) : v.problem ? (
                   <span className="text-xs text-ink-faint">Cannot be served</span>
+                ) : comparable && confirming === v.id ? (
+                  <span role="group" aria-label={`Serve v${v.number}?`} className="inline-flex flex-wrap items-center justify-end gap-2">
+                    <span className="text-xs text-ink-soft">Visitors get v{v.number} from their next answer.</span>
+                    <Link className="pw-button-quiet" href={compareHref(v)}>Compare first</Link>
+                    <button type="button" className="pw-button" disabled={busy || disabled} onClick={() => { setConfirming(null); void run(`/api/embeds/${embedId}/active-version`, 'PUT', { versionId: v.id }); }}>
+                      Serve now
+                    </button>
+                    <button type="button" className="text-xs font-bold text-ink-soft underline" onClick={() => setConfirming(null)}>Cancel</button>
+                  </span>
                 ) : (
-                  <button type="button" className="pw-button-quiet" disabled={busy || disabled} onClick={() => run(`/api/embeds/${embedId}/active-version`, 'PUT', { versionId: v.id })}>
-                    Serve v{v.number}
-                  </button>
+                  <span className="inline-flex flex-wrap items-center justify-end gap-2">
+                    {comparable && (
+                      <Link className="text-sm font-bold text-moss-700 underline" href={compareHref(v)} aria-label={`Compare v${v.number} with the served v${served?.number}`}>
+                        Compare
+                      </Link>
+                    )}
+                    <button type="button" className="pw-button-quiet" disabled={busy || disabled} onClick={() => (comparable ? setConfirming(v.id) : run(`/api/embeds/${embedId}/active-version`, 'PUT', { versionId: v.id }))}>
+                      Serve v{v.number}
+                    </button>
+                  </span>
                 )}
               </td>
             </tr>

@@ -13,12 +13,13 @@ const CONFIG = {
   view: { stroke: null },
 };
 
-export function VegaChart({ spec, label, className }: { spec: Record<string, unknown>; label: string; className?: string }) {
+/** `onReady` runs once the chart is drawn (a page can then mark itself data-chart-ready for tests and screenshots). */
+export function VegaChart({ spec, label, className, onReady }: { spec: Record<string, unknown>; label: string; className?: string; onReady?: () => void }) {
   const full = { $schema: 'https://vega.github.io/schema/vega-lite/v6.json', config: CONFIG, ...spec } as VisualizationSpec;
   return (
     <figure className={className} aria-label={label} role="img">
       {/* ast + interpreter: chart expressions run without eval, so the pages keep a CSP without 'unsafe-eval' */}
-      <VegaEmbed spec={full} options={{ actions: false, renderer: 'svg', tooltip: true, ast: true, expr: expressionInterpreter }} className="w-full" />
+      <VegaEmbed spec={full} options={{ actions: false, renderer: 'svg', tooltip: true, ast: true, expr: expressionInterpreter }} className="w-full" onEmbed={onReady ? () => onReady() : undefined} />
     </figure>
   );
 }

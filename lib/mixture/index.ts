@@ -82,3 +82,4 @@ export {
   type ReasonOptions,
   type Decomposition,
 } from './breakdown';
+export { solveAssignment, assignmentCost, type Assignment } from './assignment';

@@ -49,6 +49,13 @@ export const rows: MatrixRow[] = [
     expect: studio,
   },
   {
+    file: 'app/api/embeds/[id]/compare/route.ts',
+    method: 'GET',
+    url: (w) => `/api/embeds/${w.embedId}/compare?from=${w.versionId}&to=${w.otherVersionId}`,
+    params: (w) => ({ id: String(w.embedId) }),
+    expect: studio,
+  },
+  {
     file: 'app/api/embeds/[id]/rotate/route.ts',
     method: 'POST',
     url: (w) => `/api/embeds/${w.embedId + 1}/rotate`,

@@ -20,6 +20,8 @@ export interface World {
   embedId: number;
   embedToken: string;
   versionId: number;
+  /** Version 2 of the same calculator, not served. */
+  otherVersionId: number;
 }
 
 export interface MatrixRow {

@@ -37,6 +37,8 @@ export async function buildWorld(): Promise<World> {
   const payload = { model: modelJson, clusters, fields, caution: '' };
   const version = await ModelVersion.create({ embedId: embed.id, mixtureModelId: model.id, createdById: owner.id, number: 1, payload, checksum: payloadChecksum(payload as VersionPayload) });
   await embed.update({ activeVersionId: version.id });
+  // A second, not served version, so routes that take two versions (compare) have a pair.
+  const otherVersion = await ModelVersion.create({ embedId: embed.id, mixtureModelId: model.id, createdById: owner.id, number: 2, payload, checksum: payloadChecksum(payload as VersionPayload) });
 
   const u = (x: User) => ({ id: x.id, email: x.email });
   return {
@@ -49,5 +51,6 @@ export async function buildWorld(): Promise<World> {
     embedId: embed.id,
     embedToken: embed.token,
     versionId: version.id,
+    otherVersionId: otherVersion.id,
   };
 }
