@@ -69,7 +69,7 @@ async function datasetOf(workspaceId: number, mixtureModelId: number | null): Pr
 export async function compareCalculatorVersions(workspaceId: number, embedId: number, fromId: number, toId: number): Promise<ComparisonResult> {
   const embed = await findEmbedIn(workspaceId, embedId);
   if (fromId === toId) {
-    throw new AppError('bad_request', 'Choose two different versions to compare.', { issues: [{ field: 'to', message: 'must be a different version from "from"' }] });
+    throw new AppError('invalid_input', 'Choose two different versions to compare.', { issues: [{ field: 'to', message: 'must be a different version from "from"' }] });
   }
   const from = await readVersion(embed, fromId, 'from');
   const to = await readVersion(embed, toId, 'to');

@@ -163,18 +163,18 @@ describe('comparing two versions of a calculator', () => {
     expect((await res.json()).error.issues).toEqual([{ field: 'to', message: 'no such version of this calculator' }]);
   });
 
-  it('refuses a bad query with 400, naming the fields', async () => {
+  it('refuses a bad query with 422, naming the fields', async () => {
     const hex = await compare(`?from=0x${version.fourFull.toString(16)}&to=${version.fourDiagonal}`);
-    expect(hex.status).toBe(400);
+    expect(hex.status).toBe(422);
     expect(hex.body.error.issues.map((i: { field: string }) => i.field)).toEqual(['from']);
     const missing = await compare(`?from=${version.fourFull}`);
-    expect(missing.status).toBe(400);
+    expect(missing.status).toBe(422);
     expect(missing.body.error.issues.map((i: { field: string }) => i.field)).toEqual(['to']);
     const both = await compare('?from=1e1&to=');
-    expect(both.status).toBe(400);
+    expect(both.status).toBe(422);
     expect(both.body.error.issues.map((i: { field: string }) => i.field)).toEqual(['from', 'to']);
     const same = await compare(`?from=${version.fourFull}&to=${version.fourFull}`);
-    expect(same.status).toBe(400);
+    expect(same.status).toBe(422);
     expect(same.body.error.issues[0].field).toBe('to');
   });
 });
