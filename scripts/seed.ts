@@ -20,6 +20,8 @@ export async function seedDemo(): Promise<void> {
   const { seedDemoCalculator } = await import('@/lib/demo/calculator');
   await seedDemoModel({ workspace, owner, dataset });
   await seedDemoCalculator({ workspace, owner });
+  const { seedDemoInsight } = await import('@/lib/demo/insight');
+  await seedDemoInsight({ workspace });
 }
 
 async function seedAccountsAndData(m: typeof import('@/models')) {
