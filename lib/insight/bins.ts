@@ -15,7 +15,9 @@ import { Dataset, Embed, Fit, InsightBins, MixtureModel, ModelVersion, type Fiel
  * dataset rows (the rows the fit read: complete in the model's features) when that
  * dataset is still in the workspace, otherwise of the version's typicality sample (draws
  * from the fitted mixture itself); `source` records which. Both are deterministic, so a
- * version published before insight existed gets the same bins whenever it is first used.
+ * version published before insight existed gets the same bins whenever it is first
+ * reported on (ensureInsightBins); until then its answers are counted on the same edges,
+ * worked out from its payload (lib/insight/counters.ts, insightLookupFor).
  */
 export const INNER_BINS = 12;
 
@@ -111,9 +113,9 @@ function fromRow(row: InsightBins): VersionBins {
 }
 
 /**
- * A version's stored bins; computed and stored on first use for versions published
- * before answer insight (or whose publish-time write failed). Safe to race: the first
- * insert wins and everyone reads that row.
+ * A version's stored bins; computed and stored on first use by the report, export or
+ * weekly sweep for versions published before answer insight (or whose publish-time write
+ * failed). Safe to race: the first insert wins and everyone reads that row.
  */
 export async function ensureInsightBins(versionOrId: ModelVersion | number): Promise<VersionBins> {
   const id = typeof versionOrId === 'number' ? versionOrId : versionOrId.id;
@@ -139,6 +141,6 @@ export async function fixInsightBins(version: ModelVersion): Promise<void> {
   try {
     await ensureInsightBins(version);
   } catch (e) {
-    console.error(`[partwise] insight bins of version ${version.id} not stored now (made on first use):`, (e as Error).message);
+    console.error(`[partwise] insight bins of version ${version.id} not stored now (made on first report):`, (e as Error).message);
   }
 }

@@ -1,7 +1,7 @@
 import { QueryTypes } from 'sequelize';
 import { addFlushPart } from '@/lib/usage';
-import { sequelize, type FieldSetting, type InsightKind, type StoredFieldBins } from '@/models';
-import { binOf, binsForFields, ensureInsightBins, geometryOf } from './bins';
+import { InsightBins, sequelize, type FieldSetting, type InsightKind, type StoredFieldBins } from '@/models';
+import { binOf, binsForFields, geometryOf } from './bins';
 
 /**
  * Answer insight's counters on the scoring hot path. Each answer only adds one to daily
@@ -115,14 +115,16 @@ export function lookupFromBins(versionId: number, bins: StoredFieldBins[], group
 }
 
 /**
- * The lookup for a version being loaded for serving: its stored bins (made now for
- * versions published before insight). If they cannot be read, the same bins worked
- * out from the payload, so scoring never waits on insight.
+ * The lookup for a version being loaded for serving: its stored bins when it has them.
+ * A version published before insight has none yet; it counts on the bins its payload
+ * gives by the same rule (binsForFields: the very edges the first report will store with
+ * the training counts, see ensureInsightBins), and serving writes nothing. If the stored
+ * bins cannot be read, the same fallback, so scoring never waits on insight.
  */
 export async function insightLookupFor(version: { id: number; payload: { fields: FieldSetting[]; clusters: unknown[] } }): Promise<InsightLookup> {
   try {
-    const bins = await ensureInsightBins(version.id);
-    if (bins.fields.length === version.payload.fields.length) return lookupFromBins(version.id, bins.fields, version.payload.clusters.length);
+    const stored = await InsightBins.findByPk(version.id, { attributes: ['versionId', 'bins'] });
+    if (stored && stored.bins.length === version.payload.fields.length) return lookupFromBins(version.id, stored.bins, version.payload.clusters.length);
   } catch (e) {
     console.error(`[partwise] insight bins of version ${version.id} unavailable; counting on the payload's bins:`, (e as Error).message);
   }

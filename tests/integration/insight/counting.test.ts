@@ -2,7 +2,9 @@ import { beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { clearScoringCaches, invalidateEmbed, loadServedVersion } from '@/lib/scoring';
 import { clearPendingInsight, pendingInsightAnswers, recordInsight } from '@/lib/insight/counters';
 import { flushUsage } from '@/lib/usage';
-import { InsightBins, InsightCount, sequelize } from '@/models';
+import { ensureInsightBins, binsForFields } from '@/lib/insight/bins';
+import { payloadChecksum, type VersionPayload } from '@/lib/embeds/payload';
+import { Embed, InsightBins, InsightCount, ModelVersion, sequelize } from '@/models';
 import { answer, insightCalculator, liftScoringLimits, republish, values } from './helpers';
 
 type Calc = Awaited<ReturnType<typeof insightCalculator>>;
@@ -141,5 +143,21 @@ describe('answer insight counting', () => {
     await flushUsage();
     expect(pendingInsightAnswers()).toBe(0);
     expect(await InsightCount.sum('count', { where: { embedId: other.embed.id, kind: 'answers' } })).toBe(1);
+  });
+
+  it('counts a version published before insight on its payload\'s bins without writing at serve time; the first report stores the same bins', async () => {
+    const other = await insightCalculator();
+    const payload = { model: other.model.model, clusters: other.model.clusters, fields: other.model.fields, caution: '' } as VersionPayload;
+    const old = await ModelVersion.create({ embedId: other.embed.id, mixtureModelId: other.model.id, createdById: other.owner.id, number: 9, payload, checksum: payloadChecksum(payload) });
+    await Embed.update({ activeVersionId: old.id }, { where: { id: other.embed.id } });
+    invalidateEmbed(other.embed.id);
+    clearScoringCaches();
+    await answer(other.embed.token, { avg_speed_kmh: 20, weekly_distance_km: 100, climb_per_ride_m: 300 });
+    expect(await InsightBins.findByPk(old.id)).toBeNull();
+    await flushUsage();
+    expect(await InsightCount.sum('count', { where: { versionId: old.id, kind: 'bin', field: 'avg_speed_kmh', bin: expectedBin(20, RANGES.avg_speed_kmh) } })).toBe(1);
+    const stored = await ensureInsightBins(old.id);
+    expect(stored.fields).toEqual(binsForFields(payload.fields));
+    expect(await ensureInsightBins(old.id)).toEqual(stored);
   });
 });
