@@ -2,8 +2,8 @@ import { z } from 'zod';
 import { recordAudit } from '@/lib/audit';
 import { findEmbed, type Acting } from '@/lib/embeds/service';
 import { invalidateEmbed } from '@/lib/scoring/served';
-import { InsightAlert, InsightBins, InsightCount, ModelVersion } from '@/models';
-import { geometryOf } from './bins';
+import { InsightAlert, InsightCount, ModelVersion, type StoredFieldBins } from '@/models';
+import { ensureInsightBins, geometryOf } from './bins';
 import { flushUsage } from '@/lib/usage';
 import type { InsightAlertSettings } from './types';
 
@@ -72,7 +72,9 @@ export async function insightCsv(acting: Acting, embedId: number): Promise<{ fil
     ModelVersion.findAll({ where: { embedId: embed.id }, attributes: ['id', 'number'] }),
   ]);
   const numbers = new Map(versions.map((v) => [v.id, v.number]));
-  const bins = new Map((await InsightBins.findAll({ where: { versionId: [...numbers.keys()] } })).map((b) => [b.versionId, b.bins]));
+  // Every version with counts has its bins (stored now for versions published before insight).
+  const bins = new Map<number, StoredFieldBins[]>();
+  for (const versionId of new Set(rows.map((r) => r.versionId))) bins.set(versionId, (await ensureInsightBins(versionId)).fields);
   const lines = [CSV_HEADER.join(',')];
   for (const r of rows) {
     let low: string | number = '';
