@@ -33,13 +33,33 @@ interface UsageBuffer {
   timer: ReturnType<typeof setTimeout> | null;
   /** The flush in progress; flushes run one at a time so a failed batch can be put back in order. */
   running: Promise<void> | null;
+  /** Other in-memory counters written by the same flush (answer insight), by name. */
+  parts: Map<string, FlushPart>;
+}
+
+/** Counters kept beside usage and written by every usage flush; `flush` puts back what it could not write and throws. */
+export interface FlushPart {
+  pending(): boolean;
+  flush(): Promise<void>;
 }
 
 const buffer = ((globalThis as Record<symbol, unknown>)[Symbol.for('partwise.usageBuffer')] ??= {
   pending: new Map(),
   timer: null,
   running: null,
+  parts: new Map(),
 }) as UsageBuffer;
+buffer.parts ??= new Map();
+
+/** Have the usage flush (timer, readers, shutdown) write another module's counters too. */
+export function addFlushPart(name: string, part: FlushPart): void {
+  buffer.parts.set(name, part);
+}
+
+function partsPending(): boolean {
+  for (const part of buffer.parts.values()) if (part.pending()) return true;
+  return false;
+}
 
 function flushIntervalMs(): number {
   const v = Number(process.env.PARTWISE_USAGE_FLUSH_MS);
@@ -108,7 +128,7 @@ const ROWS_PER_STATEMENT = 2000;
 /** Write every pending count now. On failure the counts go back to the buffer and the error is rethrown. */
 export async function flushUsage(): Promise<void> {
   while (buffer.running) await buffer.running.catch(() => undefined);
-  if (!buffer.pending.size) return;
+  if (!buffer.pending.size && !partsPending()) return;
   const batch = [...buffer.pending.values()];
   buffer.pending.clear();
   buffer.running = (async () => {
@@ -119,6 +139,14 @@ export async function flushUsage(): Promise<void> {
       } catch (error) {
         // Each statement is atomic: put back only what was not written.
         for (const p of batch.slice(i)) add(p.embedId, p.workspaceId, p.granularity, p.period, p.count);
+        schedule();
+        throw error;
+      }
+    }
+    for (const part of buffer.parts.values()) {
+      try {
+        await part.flush();
+      } catch (error) {
         schedule();
         throw error;
       }

@@ -23,6 +23,8 @@ export class Embed extends Model<InferAttributes<Embed>, InferCreationAttributes
   declare disabledAt: CreationOptional<Date | null>;
   /** Set when answers in an hour jump far above the usual rate; for staff review. */
   declare flaggedAt: CreationOptional<Date | null>;
+  /** Answer insight counts this calculator's answers (lib/insight); the publisher may switch it off. */
+  declare insightEnabled: CreationOptional<boolean>;
   declare createdAt: CreationOptional<Date>;
   declare updatedAt: CreationOptional<Date>;
 
@@ -44,6 +46,7 @@ export class Embed extends Model<InferAttributes<Embed>, InferCreationAttributes
         disabledReason: { type: DataTypes.TEXT, allowNull: true },
         disabledAt: { type: DataTypes.DATE, allowNull: true },
         flaggedAt: { type: DataTypes.DATE, allowNull: true },
+        insightEnabled: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: true },
         createdAt: DataTypes.DATE,
         updatedAt: DataTypes.DATE,
       },

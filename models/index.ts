@@ -16,10 +16,13 @@ import { AbuseReport } from './AbuseReport';
 import { AuditEvent } from './AuditEvent';
 import { MailMessage } from './MailMessage';
 import { WebhookEvent } from './WebhookEvent';
+import { InsightBins } from './InsightBins';
+import { InsightCount } from './InsightCount';
+import { InsightAlert } from './InsightAlert';
 
 export const sequelize = getSequelize();
 
-const all = [User, Workspace, Membership, Invitation, AuthToken, Dataset, Fit, MixtureModel, ModelVersion, Embed, UsageCounter, Subscription, Invoice, AbuseReport, AuditEvent, MailMessage, WebhookEvent];
+const all = [User, Workspace, Membership, Invitation, AuthToken, Dataset, Fit, MixtureModel, ModelVersion, Embed, UsageCounter, Subscription, Invoice, AbuseReport, AuditEvent, MailMessage, WebhookEvent, InsightBins, InsightCount, InsightAlert];
 
 // A model class binds to one Sequelize instance; initialise once per process.
 if (!User.sequelize) {
@@ -52,7 +55,9 @@ if (!User.sequelize) {
   Workspace.hasMany(Invoice, { foreignKey: 'workspaceId' });
 }
 
-export { User, Workspace, Membership, Invitation, AuthToken, Dataset, Fit, MixtureModel, ModelVersion, Embed, UsageCounter, Subscription, Invoice, AbuseReport, AuditEvent, MailMessage, WebhookEvent };
+export { User, Workspace, Membership, Invitation, AuthToken, Dataset, Fit, MixtureModel, ModelVersion, Embed, UsageCounter, Subscription, Invoice, AbuseReport, AuditEvent, MailMessage, WebhookEvent, InsightBins, InsightCount, InsightAlert };
 export type { WorkspaceRole } from './Membership';
 export type { DatasetColumn } from './Dataset';
 export type { ClusterLabel, FieldSetting } from './MixtureModel';
+export type { StoredFieldBins } from './InsightBins';
+export type { InsightKind } from './InsightCount';

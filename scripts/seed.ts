@@ -22,6 +22,8 @@ export async function seedDemo(): Promise<void> {
   await seedDemoModel({ workspace, owner, dataset });
   await seedDemoCalculator({ workspace, owner });
   await seedDemoSecondVersion({ workspace, owner });
+  const { seedDemoInsight } = await import('@/lib/demo/insight');
+  await seedDemoInsight({ workspace });
 }
 
 async function seedAccountsAndData(m: typeof import('@/models')) {

@@ -4,6 +4,7 @@ import { storedText } from '@/lib/http/text';
 import { recordAudit } from '@/lib/audit';
 import { AppError } from '@/lib/errors';
 import { invalidateEmbed } from '@/lib/scoring/served';
+import { fixInsightBins } from '@/lib/insight/bins';
 import { Embed, MixtureModel, ModelVersion, sequelize, type User, type Workspace } from '@/models';
 import { assertCanPublish } from '@/lib/billing/limits';
 import { accentProblem, DEFAULT_ACCENT, isHexColour } from './contrast';
@@ -88,6 +89,7 @@ export async function publishNew(acting: Acting, input: z.infer<typeof publishSc
     await embed.update({ activeVersionId: version.id }, { transaction });
     return { embed, version };
   });
+  await fixInsightBins(result.version);
   await audit(acting, 'embed.publish', result.embed, { version: 1, mixtureModelId: model.id });
   return result;
 }
@@ -113,6 +115,7 @@ export async function publishVersion(acting: Acting, embedId: number, opts: { mi
     await embed.update({ mixtureModelId: model.id, ...(opts.activate === false ? {} : { activeVersionId: v.id }) }, { transaction });
     return v;
   });
+  await fixInsightBins(version);
   invalidateEmbed(embed.id);
   await audit(acting, 'embed.publish', embed, { version: version.number, mixtureModelId: model.id, activated: opts.activate !== false });
   return { embed, version };

@@ -1,4 +1,4 @@
-import { formatCount } from '@/lib/format';
+import { formatCount, formatFixed, formatPercent } from '@/lib/format';
 import type { OutgoingMail } from './index';
 
 /**
@@ -108,5 +108,46 @@ export function answersPausedMail(opts: { email: string; workspaceName: string; 
     subject: `${opts.workspaceName}: calculators paused for the rest of ${opts.period}`,
     text: `Hello,\n\n${lead}\n\n${what}\n\n${opts.link}\n`,
     html: layout('Calculators paused', [lead, what], { href: opts.link, label: 'See plans and usage' }, 'You get this mail once a month at most, when the pause begins.'),
+  };
+}
+
+/**
+ * Answer insight's weekly mail to a member who asked for it: the last 7 days of a
+ * calculator crossed their drift or unusual-share threshold. Drift is about the values
+ * visitors entered compared with the training data, never about a person.
+ */
+export function insightWeeklyMail(opts: {
+  email: string;
+  workspaceName: string;
+  calculatorTitle: string;
+  answers: number;
+  /** the largest field PSI of the last 7 days, or null */
+  drift: number | null;
+  driftBand: 'stable' | 'watch' | 'act' | null;
+  driftThreshold: number;
+  unusualShare: number;
+  unusualThreshold: number;
+  demo: boolean;
+  link: string;
+}): OutgoingMail {
+  const lead = `Here is the last week of “${opts.calculatorTitle}” in ${opts.workspaceName}: ${formatCount(opts.answers)} answers.`;
+  const lines: string[] = [];
+  const drifted = opts.drift !== null && opts.drift >= opts.driftThreshold;
+  if (drifted && opts.drift !== null) {
+    const band = opts.driftBand === 'act' ? 'above 0.25, where common practice says to act' : opts.driftBand === 'watch' ? 'between 0.1 and 0.25, worth watching by common practice' : 'below 0.1, stable by common practice';
+    lines.push(`The field that moved most has a drift (population stability index) of ${formatFixed(opts.drift, 2)}, at or above your threshold of ${formatFixed(opts.driftThreshold, 2)}: ${band}.`);
+  }
+  if (opts.unusualShare >= opts.unusualThreshold) {
+    lines.push(`${formatPercent(opts.unusualShare)} of the answers were flagged as unlike the training data, at or above your threshold of ${formatPercent(opts.unusualThreshold)}.`);
+  }
+  const meaning = 'Drift compares the values visitors typed into the calculator with the data the model was fitted on, field by field. It describes the inputs as a whole, not anything about any one visitor. A steady rise can mean the calculator now reaches people unlike those in your data; refitting on newer data may help.';
+  const demo = opts.demo ? ' The figures include the invented demo aggregates seeded for this calculator.' : '';
+  const footer = 'You get this mail at most once a week per calculator, and only when a threshold is crossed. Change or stop it on the calculator’s insight tab.';
+  return {
+    to: opts.email,
+    kind: 'insight-weekly',
+    subject: drifted ? `“${opts.calculatorTitle}”: visitors’ inputs have drifted from the training data` : `“${opts.calculatorTitle}”: more answers than you set are unlike the training data`,
+    text: `Hello,\n\n${lead}${demo}\n\n${lines.join('\n\n')}\n\n${meaning}\n\n${opts.link}\n\n${footer}\n`,
+    html: layout('Your calculator’s week', [lead + demo, ...lines, meaning], { href: opts.link, label: 'Open the insight tab' }, footer),
   };
 }

@@ -7,6 +7,7 @@ import { readJson, type BodySource } from '@/lib/http/handler';
 import { calculatorBurstLimits, type BurstLimit, type PlanId } from '@/lib/plans';
 import { limitClock, takeToken, takeTokens, type LimitOptions } from '@/lib/rate-limit';
 import { recordAnswer } from '@/lib/usage';
+import { recordInsight } from '@/lib/insight/counters';
 import { noteBurst, notePaused } from './alerts';
 import { readyLedger, releaseAnswer, reserveAnswer, waitForLedger } from './allowance';
 import { scoringSettings } from './limits';
@@ -188,6 +189,7 @@ export async function scoreForToken(token: string, call: ScoreCall): Promise<{ a
     throw error;
   }
   recordAnswer(embed);
+  recordInsight(embed, version.insight, values, score.best, score.unusual);
   if (ledger.used >= ledger.pauseAt) notePaused(ledger);
 
   const clusters = version.payload.clusters;

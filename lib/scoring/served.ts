@@ -1,6 +1,7 @@
 import type { MixtureModel as EngineModel, TypicalitySample } from '@/lib/mixture';
 import { readStoredVersion, type VersionPayload } from '@/lib/embeds/payload';
 import { AppError, type FieldIssue } from '@/lib/errors';
+import { insightLookupFor, type InsightLookup } from '@/lib/insight/counters';
 import { Embed, ModelVersion, Workspace, type FieldSetting } from '@/models';
 import { rereadScoringSettings, scoringSettings } from './limits';
 import { sharedLookup } from './single-flight';
@@ -26,6 +27,8 @@ export interface ServedEmbed {
   accentColor: string;
   /** The publisher's choice: a language code, or 'auto' to follow the visitor's browser. */
   language: string;
+  /** Answer insight counts this calculator's answers (lib/insight); changing it calls invalidateEmbed. */
+  insightEnabled: boolean;
   loadedAt: number;
 }
 
@@ -38,6 +41,8 @@ export interface ServedVersion {
   sample: TypicalitySample | null;
   /** Field position by feature name, so validating values builds nothing per request. */
   fieldIndex: Map<string, number>;
+  /** Answer insight's bins of this version, ready for the hot path (lib/insight/counters.ts). */
+  insight: InsightLookup;
 }
 
 interface ScoringCaches {
@@ -101,6 +106,7 @@ async function readServedEmbed(token: string, now: number): Promise<ServedEmbed 
     theme: embed.theme === 'dark' ? 'dark' : 'light',
     accentColor: embed.accentColor,
     language: embed.language ?? 'auto',
+    insightEnabled: embed.insightEnabled !== false,
     loadedAt: now,
   };
   return served;
@@ -116,7 +122,8 @@ export async function loadServedVersion(versionId: number): Promise<ServedVersio
   const row = await ModelVersion.findByPk(versionId);
   if (!row) throw new AppError('unavailable', 'This calculator is temporarily unavailable.');
   const { payload, engine, sample } = readStoredVersion(row);
-  const served: ServedVersion = { id: row.id, number: row.number, payload, engine, sample, fieldIndex: new Map(payload.fields.map((f, j) => [f.feature, j])) };
+  const insight = await insightLookupFor({ id: row.id, payload });
+  const served: ServedVersion = { id: row.id, number: row.number, payload, engine, sample, fieldIndex: new Map(payload.fields.map((f, j) => [f.feature, j])), insight };
   if (caches.versions.size >= MAX_VERSIONS) caches.versions.delete(caches.versions.keys().next().value as number);
   caches.versions.set(versionId, served);
   return served;

@@ -20,6 +20,7 @@ export const ACTION_LABELS: Record<string, string> = {
   'embed.activate_version': 'Served version changed',
   'embed.origins': 'Allowed sites changed',
   'embed.settings': 'Calculator settings changed',
+  'embed.insight': 'Answer insight switched on or off',
   'auth.signin': 'Signed in',
   'auth.signin_failed': 'Sign-in failed',
   'account.signed_up': 'Account created',
@@ -85,6 +86,7 @@ const SETTING_WORDS: Record<string, string> = {
   accentColor: 'accent colour',
   typicalityThreshold: 'unusual-values threshold (percentile)',
   language: 'calculator language',
+  insightEnabled: 'answer insight on',
 };
 
 function valueWords(key: string, value: unknown): string {

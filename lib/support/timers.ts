@@ -1,3 +1,4 @@
+import { sweepInsight } from '@/lib/insight/sweeps';
 import { sweepForSpikes } from './spikes';
 
 /**
@@ -17,4 +18,23 @@ export function startSupportTimers(): void {
     Number.isFinite(every) && every >= 1000 ? every : 5 * 60_000,
   );
   g.__partwiseSpikeSweep.unref?.();
+  startInsightSweep();
+}
+
+/**
+ * Answer insight's retention and weekly mail (lib/insight/sweeps.ts) every
+ * PARTWISE_INSIGHT_SWEEP_MS (default an hour): deleting is idempotent and each mail is
+ * claimed by a conditional update, so several processes may each run one.
+ */
+function startInsightSweep(): void {
+  const g = globalThis as { __partwiseInsightSweep?: ReturnType<typeof setInterval> };
+  if (g.__partwiseInsightSweep) return;
+  const every = Number(process.env.PARTWISE_INSIGHT_SWEEP_MS);
+  g.__partwiseInsightSweep = setInterval(
+    () => {
+      sweepInsight().catch((e) => console.error('[partwise] insight sweep failed:', (e as Error).message));
+    },
+    Number.isFinite(every) && every >= 1000 ? every : 60 * 60_000,
+  );
+  g.__partwiseInsightSweep.unref?.();
 }

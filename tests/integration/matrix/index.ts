@@ -5,9 +5,10 @@ import * as embeds from './embeds';
 import * as accounts from './accounts';
 import * as billing from './billing';
 import * as support from './support';
+import * as insight from './insight';
 
 /** Every area's rows. A new area adds `import * as area from './area'` and lists it here. */
-const areas: { rows: MatrixRow[]; exemptions?: Exemption[] }[] = [foundation, embeds, accounts, studio, billing, support];
+const areas: { rows: MatrixRow[]; exemptions?: Exemption[] }[] = [foundation, embeds, accounts, studio, billing, support, insight];
 
 export const allRows: MatrixRow[] = areas.flatMap((a) => a.rows);
 export const allExemptions: Exemption[] = areas.flatMap((a) => a.exemptions ?? []);
