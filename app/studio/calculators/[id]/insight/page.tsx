@@ -19,7 +19,7 @@ export default async function CalculatorInsightPage({ params }: { params: Promis
   const actor = await pageWorkspace('member', `/studio/calculators/${id}/insight`);
   try {
     const detail = await calculatorDetail(actor.workspace.id, embedId);
-    const report = await insightReport({ workspaceId: actor.workspace.id, embedId, userId: actor.user.id, days: 30, versionId: null });
+    const report = await insightReport({ user: actor.user, workspace: actor.workspace }, embedId, { days: 30 });
     return (
       <StudioPage trail={[{ href: '/studio/calculators', label: 'Calculators' }]} title={detail.embed.title} lead={<StatusPill status={detail.embed.status} />}>
         <CalculatorTabs embedId={embedId} current="insight" />
