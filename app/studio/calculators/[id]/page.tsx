@@ -11,6 +11,7 @@ import { SnippetBox } from '@/components/calculators/SnippetBox';
 import { StatusPill } from '@/components/calculators/StatusPill';
 import { TokenActions } from '@/components/calculators/TokenActions';
 import { VersionList } from '@/components/calculators/VersionList';
+import { CalculatorTabs } from '@/components/calculators/CalculatorTabs';
 import { ErrorNote, Section, StudioPage } from '@/components/studio/StudioPage';
 import { formatCount } from '@/lib/format';
 
@@ -67,6 +68,7 @@ export default async function CalculatorPage({ params }: { params: Promise<{ id:
         </span>
       }
     >
+      <CalculatorTabs embedId={embed.id} current="overview" />
       {embed.allowedOrigins.length === 0 && !retired && (
         <div role="alert" className="mb-8 rounded-lg border-2 border-clay-500 bg-clay-100 px-5 py-4 text-clay-700" data-testid="no-websites-warning">
           <p className="text-lg font-bold">No website may show this calculator yet</p>
