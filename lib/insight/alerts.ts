@@ -53,7 +53,7 @@ export async function sweepInsightAlerts(now = new Date()): Promise<{ checked: n
           unusualShare,
           unusualThreshold: alert.unusualShare,
           demo: week.demo,
-          link: appLink(`/studio/calculators/${embed.id}`, { tab: 'insight' }),
+          link: appLink(`/studio/calculators/${embed.id}/insight`),
         }),
       );
       sent++;

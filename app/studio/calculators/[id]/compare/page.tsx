@@ -11,6 +11,7 @@ import { VersionComparisonPicker } from '@/components/calculators/VersionCompari
 import { VersionComparisonServe } from '@/components/calculators/VersionComparisonServe';
 import { UnmatchedGroups, VersionComparisonTable } from '@/components/calculators/VersionComparisonTable';
 import { ErrorNote, Section, StudioPage } from '@/components/studio/StudioPage';
+import { CalculatorTabs } from '@/components/calculators/CalculatorTabs';
 
 export const metadata: Metadata = { title: 'Compare versions' };
 export const dynamic = 'force-dynamic';
@@ -48,6 +49,7 @@ export default async function CompareVersionsPage({ params, searchParams }: { pa
   if (versions.length < 2 || fromId === null || toId === null) {
     return (
       <StudioPage trail={trail} title="Compare versions">
+        <CalculatorTabs embedId={embed.id} current="compare" />
         <Section title="Nothing to compare yet">
           <p className="text-ink-soft">
             This calculator has one version. Publish a new version from the <Link className="font-bold text-moss-700 underline" href={`/studio/calculators/${embed.id}#versions`}>calculator&rsquo;s page</Link> (it need not be served), then compare the two here.
@@ -74,6 +76,7 @@ export default async function CompareVersionsPage({ params, searchParams }: { pa
   if (!result) {
     return (
       <StudioPage trail={trail} title="Compare versions">
+        <CalculatorTabs embedId={embed.id} current="compare" />
         <Section title="Versions" id="pick">
           {picked}
         </Section>
@@ -97,6 +100,7 @@ export default async function CompareVersionsPage({ params, searchParams }: { pa
       lead="Each group of one version is paired with the most similar group of the other, so you can see what a switch would change before visitors do."
       actions={target && embed.status !== 'retired' ? <VersionComparisonServe embedId={embed.id} versionId={target.id} number={target.number} servedNumber={servedNumber} disabled={false} /> : undefined}
     >
+      <CalculatorTabs embedId={embed.id} current="compare" />
       <Section title="Versions" id="pick">
         {picked}
       </Section>
