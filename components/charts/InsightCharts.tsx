@@ -107,12 +107,14 @@ export function FieldHistogramChart({ bins, label }: { bins: BinShare[]; label: 
     width: 'container',
     height: 150,
     data: { values: bins },
-    mark: { type: 'bar', binSpacing: 1 },
+    // Visitors drawn as outlined, see-through bars over the grey training bars, so both stay readable where they overlap.
+    mark: { type: 'bar', binSpacing: 1, strokeWidth: 1.5 },
     encoding: {
       x: { field: 'bin', type: 'ordinal', sort: { field: 'order' }, title: null, axis: { labelAngle: -40, labelLimit: 90, labelFontSize: 10 } },
       y: { field: 'share', type: 'quantitative', stack: null, title: 'Share', axis: { format: '.0%', tickCount: 4 } },
       color: { field: 'source', type: 'nominal', title: null, scale: { domain: ['Training data', 'Visitors'], range: ['#8a91a0', '#2f6f5e'] }, legend: { orient: 'top' } },
-      opacity: { field: 'source', type: 'nominal', scale: { domain: ['Training data', 'Visitors'], range: [0.45, 0.75] }, legend: null },
+      fillOpacity: { field: 'source', type: 'nominal', scale: { domain: ['Training data', 'Visitors'], range: [0.55, 0.3] }, legend: null },
+      stroke: { field: 'source', type: 'nominal', scale: { domain: ['Training data', 'Visitors'], range: ['transparent', '#245649'] }, legend: null },
       tooltip: [
         { field: 'bin', type: 'ordinal', title: 'Values' },
         { field: 'source', type: 'nominal', title: 'Who' },
