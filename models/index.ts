@@ -16,10 +16,11 @@ import { AbuseReport } from './AbuseReport';
 import { AuditEvent } from './AuditEvent';
 import { MailMessage } from './MailMessage';
 import { WebhookEvent } from './WebhookEvent';
+import { ApiKey } from './ApiKey';
 
 export const sequelize = getSequelize();
 
-const all = [User, Workspace, Membership, Invitation, AuthToken, Dataset, Fit, MixtureModel, ModelVersion, Embed, UsageCounter, Subscription, Invoice, AbuseReport, AuditEvent, MailMessage, WebhookEvent];
+const all = [User, Workspace, Membership, Invitation, AuthToken, Dataset, Fit, MixtureModel, ModelVersion, Embed, UsageCounter, Subscription, Invoice, AbuseReport, AuditEvent, MailMessage, WebhookEvent, ApiKey];
 
 // A model class binds to one Sequelize instance; initialise once per process.
 if (!User.sequelize) {
@@ -50,9 +51,12 @@ if (!User.sequelize) {
   Workspace.hasOne(Subscription, { foreignKey: 'workspaceId' });
   Subscription.belongsTo(Workspace, { foreignKey: 'workspaceId' });
   Workspace.hasMany(Invoice, { foreignKey: 'workspaceId' });
+  Workspace.hasMany(ApiKey, { foreignKey: 'workspaceId' });
+  ApiKey.belongsTo(Workspace, { foreignKey: 'workspaceId' });
 }
 
-export { User, Workspace, Membership, Invitation, AuthToken, Dataset, Fit, MixtureModel, ModelVersion, Embed, UsageCounter, Subscription, Invoice, AbuseReport, AuditEvent, MailMessage, WebhookEvent };
+export { User, Workspace, Membership, Invitation, AuthToken, Dataset, Fit, MixtureModel, ModelVersion, Embed, UsageCounter, Subscription, Invoice, AbuseReport, AuditEvent, MailMessage, WebhookEvent, ApiKey };
+export type { ApiKeyScope } from './ApiKey';
 export type { WorkspaceRole } from './Membership';
 export type { DatasetColumn } from './Dataset';
 export type { ClusterLabel, FieldSetting } from './MixtureModel';

@@ -1,0 +1,183 @@
+import { createHash, timingSafeEqual } from 'node:crypto';
+import { customAlphabet } from 'nanoid';
+import { z } from 'zod';
+import { apiKeyActorLabel, recordAudit } from '@/lib/audit';
+import { AppError } from '@/lib/errors';
+import { formatDateTime } from '@/lib/format';
+import { storedText } from '@/lib/http/text';
+import { ApiKey, Workspace } from '@/models';
+import { API_KEY_SCOPES, type ApiKeyScope } from '@/models/ApiKey';
+import type { WorkspaceActor } from './guard';
+
+/**
+ * Workspace API keys: the only way into /api/v1. A key reads `pwk_<prefix>_<secret>`:
+ * the prefix (10 letters and digits) is public, stored as is and shown in lists; the
+ * whole key is hashed (SHA-256, hex) and only the hash is stored, so the secret is shown
+ * once, when the key is made. Keys are read from `Authorization: Bearer …` only, never
+ * from cookies, so a browser page on any site cannot make a signed-in person's browser
+ * act with one. This module is part of lib/auth, the one place that checks roles and scopes.
+ */
+export { API_KEY_SCOPES, type ApiKeyScope };
+
+const ALPHABET = '0123456789ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz';
+export const KEY_PREFIX_LENGTH = 10;
+/** 40 characters of 62: about 238 bits. */
+export const KEY_SECRET_LENGTH = 40;
+const newPrefix = customAlphabet(ALPHABET, KEY_PREFIX_LENGTH);
+const newSecret = customAlphabet(ALPHABET, KEY_SECRET_LENGTH);
+const KEY_PATTERN = new RegExp(`^pwk_([0-9A-Za-z]{${KEY_PREFIX_LENGTH}})_([0-9A-Za-z]{32,128})$`);
+
+export const SCOPE_WORDS: Record<ApiKeyScope, string> = {
+  read: 'read datasets, fits, models, calculators and usage',
+  fit: 'upload datasets, start fits, save and edit models',
+  publish: 'publish calculators and versions, choose the served version',
+  score: 'score rows in batches',
+};
+
+/** `last_used_at` is written at most this often per key (every use is still audited). */
+export const LAST_USED_RESOLUTION_MS = 60_000;
+
+/** The parts of a key as sent, or null when it is not shaped like one of ours. */
+export function parseApiKey(raw: string): { prefix: string; secret: string } | null {
+  const m = KEY_PATTERN.exec(raw);
+  return m ? { prefix: m[1], secret: m[2] } : null;
+}
+
+export function hashApiKey(key: string): string {
+  return createHash('sha256').update(key, 'utf8').digest('hex');
+}
+
+/** A fresh key: the whole text (to show once) and what is stored. */
+export function generateApiKey(): { key: string; prefix: string; secretHash: string } {
+  const prefix = newPrefix();
+  const key = `pwk_${prefix}_${newSecret()}`;
+  return { key, prefix, secretHash: hashApiKey(key) };
+}
+
+/** Same-length hex digests compared without an early exit. */
+export function sameHash(a: string, b: string): boolean {
+  const x = Buffer.from(a, 'hex');
+  const y = Buffer.from(b, 'hex');
+  return x.length === y.length && x.length > 0 && timingSafeEqual(x, y);
+}
+
+export const apiKeyCreateSchema = z
+  .object({
+    name: storedText('The key name').trim().min(1, 'Give the key a name, like "Nightly re-fit".').max(120, 'Keep the name under 120 characters.'),
+    scopes: z
+      .array(z.enum(API_KEY_SCOPES, { error: `Each scope is one of ${API_KEY_SCOPES.join(', ')}.` }))
+      .min(1, 'Choose at least one scope.')
+      .refine((s) => new Set(s).size === s.length, 'A scope is listed twice.'),
+    expiresInDays: z.number({ error: 'Enter a whole number of days.' }).int('Enter a whole number of days.').min(1, 'A key lasts at least 1 day.').max(730, 'A key lasts at most 730 days (two years).').optional(),
+  })
+  .strict();
+export type ApiKeyCreate = z.infer<typeof apiKeyCreateSchema>;
+
+/** What lists show: never the hash. */
+export function describeApiKey(k: ApiKey) {
+  return {
+    id: k.id,
+    name: k.name,
+    prefix: `pwk_${k.prefix}`,
+    scopes: k.scopes,
+    expiresAt: k.expiresAt,
+    lastUsedAt: k.lastUsedAt,
+    revokedAt: k.revokedAt,
+    createdAt: k.createdAt,
+  };
+}
+export type ApiKeyView = ReturnType<typeof describeApiKey>;
+
+function assertOwner(actor: WorkspaceActor) {
+  if (actor.role !== 'owner') throw new AppError('forbidden', 'Only a workspace owner may manage API keys.');
+}
+
+/** Owners only. The answer carries the whole key: the one time it is ever shown. */
+export async function createApiKey(actor: WorkspaceActor, input: ApiKeyCreate, request?: Request): Promise<{ key: ApiKeyView; secret: string }> {
+  assertOwner(actor);
+  const { key, prefix, secretHash } = generateApiKey();
+  const expiresAt = input.expiresInDays ? new Date(Date.now() + input.expiresInDays * 86_400_000) : null;
+  const row = await ApiKey.create({ workspaceId: actor.workspace.id, name: input.name, prefix, secretHash, scopes: [...input.scopes], expiresAt, createdById: actor.user.id });
+  await recordAudit({ action: 'api_key.create', actor: actor.user, workspaceId: actor.workspace.id, targetType: 'api_key', targetId: row.id, detail: { name: row.name, scopes: row.scopes, expiresAt: expiresAt?.toISOString() ?? null }, request });
+  return { key: describeApiKey(row), secret: key };
+}
+
+export async function listApiKeys(actor: WorkspaceActor): Promise<ApiKeyView[]> {
+  assertOwner(actor);
+  const rows = await ApiKey.findAll({ where: { workspaceId: actor.workspace.id }, order: [['createdAt', 'DESC'], ['id', 'DESC']] });
+  return rows.map(describeApiKey);
+}
+
+/** Revoke at once; a revoked key answers 401 from its next use. Revoking twice is harmless. */
+export async function revokeApiKey(actor: WorkspaceActor, id: number, request?: Request): Promise<ApiKeyView> {
+  assertOwner(actor);
+  const row = await ApiKey.findOne({ where: { id, workspaceId: actor.workspace.id } });
+  if (!row) throw new AppError('not_found', 'There is no such API key in this workspace.');
+  if (!row.revokedAt) {
+    await row.update({ revokedAt: new Date() });
+    await recordAudit({ action: 'api_key.revoke', actor: actor.user, workspaceId: actor.workspace.id, targetType: 'api_key', targetId: row.id, detail: { name: row.name }, request });
+  }
+  return describeApiKey(row);
+}
+
+/** Who acts when a key calls: the key itself, for its workspace (its creator is not the actor). */
+export interface KeyActor {
+  workspace: Workspace;
+  key: ApiKey;
+  scopes: ApiKeyScope[];
+}
+
+const unauthenticated = (message: string) => new AppError('unauthenticated', message, { headers: { 'WWW-Authenticate': 'Bearer realm="partwise"' } });
+
+function bearerOf(request: Request): string | null {
+  const header = request.headers.get('authorization');
+  if (!header) return null;
+  const m = /^Bearer[ ]+(\S+)\s*$/i.exec(header);
+  return m ? m[1] : '';
+}
+
+/**
+ * The key behind an /api/v1 request, with `scope` among its scopes. Reads only the
+ * Authorization header: a session cookie alone gets 401. Unknown, revoked and expired
+ * keys get 401 (the words say which; a key of another workspace is never named), a key
+ * without the scope 403. Every accepted use is audited ('api_key.use'); refusals of a
+ * known key too ('api_key.refused'), so an owner can see a pipeline still using an old key.
+ */
+export async function requireApiKey(request: Request, scope: ApiKeyScope): Promise<KeyActor> {
+  const bearer = bearerOf(request);
+  if (bearer === null) {
+    throw unauthenticated(
+      request.headers.get('cookie')
+        ? 'This route takes an API key, not a signed-in session: send Authorization: Bearer pwk_… (make a key under Studio → API keys).'
+        : 'Send an API key as Authorization: Bearer pwk_… (make one under Studio → API keys).',
+    );
+  }
+  if (bearer === '') throw unauthenticated('The Authorization header must read "Bearer pwk_…".');
+  const parts = parseApiKey(bearer);
+  if (!parts) throw unauthenticated('This is not a Partwise API key; keys look like pwk_ followed by two groups of letters and digits.');
+  const row = await ApiKey.findOne({ where: { prefix: parts.prefix } });
+  // The hash is compared even when no key has this prefix, so both answers take alike.
+  const matches = sameHash(hashApiKey(bearer), row?.secretHash ?? '0'.repeat(64)) && !!row;
+  if (!row || !matches) throw unauthenticated('This API key is not known. Check that it was copied whole, or make a new one.');
+  const path = new URL(request.url).pathname;
+  const refuse = async (error: AppError, reason: string) => {
+    await recordAudit({ action: 'api_key.refused', actorLabel: apiKeyActorLabel(row), workspaceId: row.workspaceId, targetType: 'api_key', targetId: row.id, detail: { reason, method: request.method, path }, request });
+    return error;
+  };
+  const now = new Date();
+  if (row.revokedAt) throw await refuse(unauthenticated(`This API key was revoked on ${formatDateTime(row.revokedAt)}; make a new one.`), 'revoked');
+  if (row.expiresAt && row.expiresAt.getTime() <= now.getTime()) throw await refuse(unauthenticated(`This API key expired on ${formatDateTime(row.expiresAt)}; make a new one.`), 'expired');
+  const workspace = await Workspace.findByPk(row.workspaceId);
+  if (!workspace) throw unauthenticated('This API key is not known. Check that it was copied whole, or make a new one.');
+  if (workspace.suspendedAt) throw await refuse(new AppError('forbidden', 'This workspace is suspended; its API keys do not work until support restores it.'), 'suspended');
+  const scopes = (Array.isArray(row.scopes) ? row.scopes : []).filter((s): s is ApiKeyScope => (API_KEY_SCOPES as readonly string[]).includes(s));
+  if (!scopes.includes(scope)) {
+    throw await refuse(new AppError('forbidden', `This API key lacks the "${scope}" scope (it has: ${scopes.join(', ') || 'none'}). Make a key with "${scope}" to ${SCOPE_WORDS[scope]}.`), `scope ${scope}`);
+  }
+  if (!row.lastUsedAt || now.getTime() - row.lastUsedAt.getTime() >= LAST_USED_RESOLUTION_MS) {
+    row.lastUsedAt = now;
+    await ApiKey.update({ lastUsedAt: now }, { where: { id: row.id } });
+  }
+  await recordAudit({ action: 'api_key.use', actorLabel: apiKeyActorLabel(row), workspaceId: row.workspaceId, targetType: 'api_key', targetId: row.id, detail: { method: request.method, path, scope }, request });
+  return { workspace, key: row, scopes };
+}
