@@ -1,7 +1,8 @@
 import { DataTypes, Model, type CreationOptional, type ForeignKey, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
 
-export const API_KEY_SCOPES = ['read', 'fit', 'publish', 'score'] as const;
-export type ApiKeyScope = (typeof API_KEY_SCOPES)[number];
+import type { ApiKeyScope } from './api-key-scopes';
+
+export { API_KEY_SCOPES, type ApiKeyScope } from './api-key-scopes';
 
 /**
  * A workspace's key for the REST API (/api/v1). The whole key is shown once when it is

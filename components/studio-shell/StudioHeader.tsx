@@ -14,7 +14,7 @@ export function StudioHeader(props: { user: { name: string; email: string }; isS
   const items: NavItem[] = [];
   if (props.role) {
     items.push({ href: '/studio/datasets', label: 'Datasets' }, { href: '/studio/fits', label: 'Fits' }, { href: '/studio/models', label: 'Models' }, { href: '/studio/calculators', label: 'Calculators' }, { href: '/studio/team', label: 'Team' });
-    if (props.role === 'owner') items.push({ href: '/studio/billing', label: 'Billing' });
+    if (props.role === 'owner') items.push({ href: '/studio/billing', label: 'Billing' }, { href: '/studio/api-keys', label: 'API keys' });
   }
   if (props.isStaff) items.push({ href: '/support', label: 'Support' });
   const roleLabel = props.isStaff ? 'Partwise staff' : props.role === 'owner' ? 'Owner of this workspace' : props.role === 'member' ? 'Member of this workspace' : 'No workspace';

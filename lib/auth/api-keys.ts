@@ -1,12 +1,11 @@
 import { createHash, timingSafeEqual } from 'node:crypto';
 import { customAlphabet } from 'nanoid';
-import { z } from 'zod';
 import { apiKeyActorLabel, recordAudit } from '@/lib/audit';
 import { AppError } from '@/lib/errors';
 import { formatDateTime } from '@/lib/format';
-import { storedText } from '@/lib/http/text';
 import { ApiKey, Workspace } from '@/models';
-import { API_KEY_SCOPES, type ApiKeyScope } from '@/models/ApiKey';
+import { API_KEY_SCOPES, type ApiKeyScope } from '@/models/api-key-scopes';
+import { apiKeyCreateSchema, SCOPE_WORDS, type ApiKeyCreate } from './api-key-schemas';
 import type { WorkspaceActor } from './guard';
 
 /**
@@ -17,7 +16,7 @@ import type { WorkspaceActor } from './guard';
  * from cookies, so a browser page on any site cannot make a signed-in person's browser
  * act with one. This module is part of lib/auth, the one place that checks roles and scopes.
  */
-export { API_KEY_SCOPES, type ApiKeyScope };
+export { API_KEY_SCOPES, type ApiKeyScope, apiKeyCreateSchema, SCOPE_WORDS, type ApiKeyCreate };
 
 const ALPHABET = '0123456789ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz';
 export const KEY_PREFIX_LENGTH = 10;
@@ -26,13 +25,6 @@ export const KEY_SECRET_LENGTH = 40;
 const newPrefix = customAlphabet(ALPHABET, KEY_PREFIX_LENGTH);
 const newSecret = customAlphabet(ALPHABET, KEY_SECRET_LENGTH);
 const KEY_PATTERN = new RegExp(`^pwk_([0-9A-Za-z]{${KEY_PREFIX_LENGTH}})_([0-9A-Za-z]{32,128})$`);
-
-export const SCOPE_WORDS: Record<ApiKeyScope, string> = {
-  read: 'read datasets, fits, models, calculators and usage',
-  fit: 'upload datasets, start fits, save and edit models',
-  publish: 'publish calculators and versions, choose the served version',
-  score: 'score rows in batches',
-};
 
 /** `last_used_at` is written at most this often per key (every use is still audited). */
 export const LAST_USED_RESOLUTION_MS = 60_000;
@@ -60,18 +52,6 @@ export function sameHash(a: string, b: string): boolean {
   const y = Buffer.from(b, 'hex');
   return x.length === y.length && x.length > 0 && timingSafeEqual(x, y);
 }
-
-export const apiKeyCreateSchema = z
-  .object({
-    name: storedText('The key name').trim().min(1, 'Give the key a name, like "Nightly re-fit".').max(120, 'Keep the name under 120 characters.'),
-    scopes: z
-      .array(z.enum(API_KEY_SCOPES, { error: `Each scope is one of ${API_KEY_SCOPES.join(', ')}.` }))
-      .min(1, 'Choose at least one scope.')
-      .refine((s) => new Set(s).size === s.length, 'A scope is listed twice.'),
-    expiresInDays: z.number({ error: 'Enter a whole number of days.' }).int('Enter a whole number of days.').min(1, 'A key lasts at least 1 day.').max(730, 'A key lasts at most 730 days (two years).').optional(),
-  })
-  .strict();
-export type ApiKeyCreate = z.infer<typeof apiKeyCreateSchema>;
 
 /** What lists show: never the hash. */
 export function describeApiKey(k: ApiKey) {
