@@ -1,11 +1,12 @@
-import { createHash, timingSafeEqual } from 'node:crypto';
-import { customAlphabet } from 'nanoid';
 import { apiKeyActorLabel, recordAudit } from '@/lib/audit';
 import { AppError } from '@/lib/errors';
 import { formatDateTime } from '@/lib/format';
 import { ApiKey, Workspace } from '@/models';
 import { API_KEY_SCOPES, type ApiKeyScope } from '@/models/api-key-scopes';
 import { apiKeyCreateSchema, SCOPE_WORDS, type ApiKeyCreate } from './api-key-schemas';
+import { generateApiKey, hashApiKey, parseApiKey, sameHash } from './api-key-format';
+
+export { generateApiKey, hashApiKey, parseApiKey, sameHash, KEY_PREFIX_LENGTH, KEY_SECRET_LENGTH } from './api-key-format';
 import type { WorkspaceActor } from './guard';
 
 /**
@@ -18,40 +19,8 @@ import type { WorkspaceActor } from './guard';
  */
 export { API_KEY_SCOPES, type ApiKeyScope, apiKeyCreateSchema, SCOPE_WORDS, type ApiKeyCreate };
 
-const ALPHABET = '0123456789ABCDEFGHIJKLMNOPQRSTUVWXYZabcdefghijklmnopqrstuvwxyz';
-export const KEY_PREFIX_LENGTH = 10;
-/** 40 characters of 62: about 238 bits. */
-export const KEY_SECRET_LENGTH = 40;
-const newPrefix = customAlphabet(ALPHABET, KEY_PREFIX_LENGTH);
-const newSecret = customAlphabet(ALPHABET, KEY_SECRET_LENGTH);
-const KEY_PATTERN = new RegExp(`^pwk_([0-9A-Za-z]{${KEY_PREFIX_LENGTH}})_([0-9A-Za-z]{32,128})$`);
-
 /** `last_used_at` is written at most this often per key (every use is still audited). */
 export const LAST_USED_RESOLUTION_MS = 60_000;
-
-/** The parts of a key as sent, or null when it is not shaped like one of ours. */
-export function parseApiKey(raw: string): { prefix: string; secret: string } | null {
-  const m = KEY_PATTERN.exec(raw);
-  return m ? { prefix: m[1], secret: m[2] } : null;
-}
-
-export function hashApiKey(key: string): string {
-  return createHash('sha256').update(key, 'utf8').digest('hex');
-}
-
-/** A fresh key: the whole text (to show once) and what is stored. */
-export function generateApiKey(): { key: string; prefix: string; secretHash: string } {
-  const prefix = newPrefix();
-  const key = `pwk_${prefix}_${newSecret()}`;
-  return { key, prefix, secretHash: hashApiKey(key) };
-}
-
-/** Same-length hex digests compared without an early exit. */
-export function sameHash(a: string, b: string): boolean {
-  const x = Buffer.from(a, 'hex');
-  const y = Buffer.from(b, 'hex');
-  return x.length === y.length && x.length > 0 && timingSafeEqual(x, y);
-}
 
 /** What lists show: never the hash. */
 export function describeApiKey(k: ApiKey) {
