@@ -64,6 +64,7 @@ describe('making, listing and revoking keys (owners only)', () => {
       [{ name: '', scopes: ['read'] }, 'name'],
       [{ name: 'x', scopes: ['read'], expiresInDays: 731 }, 'expiresInDays'],
       [{ name: 'x', scopes: ['read'], expiresInDays: '30' }, 'expiresInDays'],
+      [{ name: 'x', scopes: ['read'], admin: true }, 'admin'],
     ] as const) {
       const { status, json } = await make(body);
       expect(status, JSON.stringify(body)).toBe(422);
