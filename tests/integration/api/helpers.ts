@@ -22,4 +22,4 @@ export function keyRequest(url: string, secret: string | null, opts: { method?: 
   return new Request(new URL(url, 'http://localhost:3000'), { method: opts.method ?? (body !== undefined ? 'POST' : 'GET'), headers, body });
 }
 
-export const ctx = (params: Record<string, string> = {}) => ({ params: Promise.resolve(params) });
+export const ctx = <P extends Record<string, string>>(params: P = {} as P) => ({ params: Promise.resolve(params) });
