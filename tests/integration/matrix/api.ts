@@ -79,6 +79,7 @@ export const keyRows: KeyMatrixRow[] = [
 ];
 
 export const rows: MatrixRow[] = [
+  { file: 'app/api/openapi.json/route.ts', method: 'GET', url: () => '/api/openapi.json', expect: { visitor: 200, member: 200, owner: 200, staff: 200, outsider: 200 }, note: 'the public API document' },
   { file: 'app/api/workspaces/current/api-keys/route.ts', method: 'GET', url: () => '/api/workspaces/current/api-keys', expect: ownersOnly(200) },
   { file: 'app/api/workspaces/current/api-keys/route.ts', method: 'POST', url: () => '/api/workspaces/current/api-keys', body: () => ({ name: 'Matrix key', scopes: ['read'] }), expect: ownersOnly(201) },
   {
