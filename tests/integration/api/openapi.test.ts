@@ -4,6 +4,7 @@ import { Validator } from '@seriousme/openapi-schema-validator';
 import { describe, expect, it } from 'vitest';
 import { GET as openApiRoute } from '@/app/api/openapi.json/route';
 import { openApiDocument, SCOPE_EXTENSION } from '@/lib/api/openapi/registry';
+import { componentFields, referenceOf } from '@/lib/api/openapi/reference';
 
 const METHODS = ['GET', 'POST', 'PUT', 'PATCH', 'DELETE'] as const;
 /** The public API: what the document must cover, route file for route file. */
@@ -89,5 +90,23 @@ describe('the OpenAPI document', () => {
     const res = await openApiRoute(new Request('http://localhost:3000/api/openapi.json'), { params: Promise.resolve({}) });
     expect(res.status).toBe(200);
     expect(await res.json()).toEqual(JSON.parse(JSON.stringify(openApiDocument())));
+  });
+
+  it('reads into the reference page: every operation under its tag, body fields with types and rules in words', () => {
+    const doc = openApiDocument() as unknown as Record<string, unknown>;
+    const tags = referenceOf(doc);
+    expect(tags.map((t) => t.name)).toEqual(['Datasets', 'Fits', 'Models', 'Calculators', 'Usage', 'Scoring']);
+    expect(tags.flatMap((t) => t.operations.map((o) => `${o.method.toLowerCase()} ${o.path}`)).sort()).toEqual(operationsInDocument());
+    const start = tags.find((t) => t.name === 'Fits')!.operations.find((o) => o.method === 'POST')!;
+    expect(start.scope).toBe('fit');
+    const field = (name: string) => start.body!.fields.find((f) => f.name === name);
+    expect(field('datasetId')).toMatchObject({ type: 'integer', required: true, constraints: ['above 0'] });
+    expect(field('maxComponents')).toMatchObject({ type: 'integer', required: false, constraints: ['from 1 to 12', 'default 8'] });
+    expect(field('covariances')!.constraints).toContain('each one of "full", "diagonal", "spherical", "tied"');
+    const patch = tags.find((t) => t.name === 'Models')!.operations.find((o) => o.method === 'PATCH')!;
+    expect(patch.body!.fields.find((f) => f.name === 'clusters[].label')).toMatchObject({ type: 'string', required: true, constraints: ['1–60 characters'] });
+    const wait = tags.find((t) => t.name === 'Fits')!.operations.find((o) => o.path === '/api/v1/fits/{id}')!.parameters.find((p) => p.name === 'wait');
+    expect(wait).toMatchObject({ in: 'query', required: false });
+    expect(componentFields(doc, 'Ranking').map((f) => f.name)).toEqual(expect.arrayContaining(['candidates', 'candidates[].bic', 'candidates[].aic']));
   });
 });
