@@ -3,9 +3,14 @@
  * route, generated from the zod schemas the routes validate with (imported from the lib
  * modules, never copied). tests/integration/api/openapi.test.ts fails when a route file
  * on disk has no operation here, or an operation has no route file.
+ *
+ * Words for readers go on with zod's own `.meta()`, which zod-to-openapi v9 reads.
+ * Not `.openapi()` (extendZodWithOpenApi): that patches ZodType's prototype, and zod 4
+ * copies prototype methods onto a schema only when it is made, so the lib modules'
+ * schemas, made before this module loads in the production bundle, never got it.
  */
 import { OpenAPIRegistry, OpenApiGeneratorV31, type RouteConfig } from '@asteasolutions/zod-to-openapi';
-import { z } from './zod';
+import { z } from 'zod';
 import { datasetPreviewQuery, datasetUploadQuery, fitWaitQuery, MAX_WAIT_SECONDS } from '@/lib/api/v1';
 import { publishSchema, publishVersionSchema, servedVersionSchema } from '@/lib/embeds/service';
 import { createModelSchema, updateModelSchema } from '@/lib/fitting/models';
@@ -29,20 +34,20 @@ type Tag = (typeof TAGS)[number]['name'];
 /** The extension each key-authenticated operation carries: the scope its key needs. */
 export const SCOPE_EXTENSION = 'x-partwise-scope';
 
-const idPath = z.object({ id: idParam.shape.id.openapi({ description: 'A decimal id, like 12.', pattern: '^[1-9][0-9]{0,15}$', example: '12' }) });
+const idPath = z.object({ id: idParam.shape.id.meta({ description: 'A decimal id, like 12.', pattern: '^[1-9][0-9]{0,15}$', example: '12' }) });
 
 // The routes' own query and body schemas, with words for the reader on their fields.
-const waitQuery = z.object({ wait: fitWaitQuery.shape.wait.openapi({ description: `Seconds to wait for the fit to finish, 0–${MAX_WAIT_SECONDS}; left out, the answer comes at once.`, pattern: '^(0|[1-9][0-9]?)$', example: '30' }) }).strict();
-const previewQuery = z.object({ preview: datasetPreviewQuery.shape.preview.openapi({ description: 'How many rows to include as a preview, 0–200.', pattern: '^(0|[1-9][0-9]{0,2})$', default: '20' }) }).strict();
+const waitQuery = z.object({ wait: fitWaitQuery.shape.wait.meta({ description: `Seconds to wait for the fit to finish, 0–${MAX_WAIT_SECONDS}; left out, the answer comes at once.`, pattern: '^(0|[1-9][0-9]?)$', example: '30' }) }).strict();
+const previewQuery = z.object({ preview: datasetPreviewQuery.shape.preview.meta({ description: 'How many rows to include as a preview, 0–200.', pattern: '^(0|[1-9][0-9]{0,2})$', default: '20' }) }).strict();
 const uploadQuery = z
   .object({
-    name: datasetUploadQuery.shape.name.openapi({ description: 'The dataset’s name (else taken from the file name).', example: 'Rides, week 49' }),
-    filename: datasetUploadQuery.shape.filename.openapi({ description: 'The file name to keep with it.', example: 'rides.csv' }),
+    name: datasetUploadQuery.shape.name.meta({ description: 'The dataset’s name (else taken from the file name).', example: 'Rides, week 49' }),
+    filename: datasetUploadQuery.shape.filename.meta({ description: 'The file name to keep with it.', example: 'rides.csv' }),
   })
   .strict();
 const scoreBody = z
   .object({
-    values: scoreBodySchema.shape.values.openapi({
+    values: scoreBodySchema.shape.values.meta({
       type: 'object',
       additionalProperties: { type: ['number', 'null'] },
       description: 'Feature name → value, for the fields of the served version; null (or left out) for a blank optional field.',
@@ -81,7 +86,7 @@ const operations: Operation[] = [
     summary: 'Upload a dataset',
     description: 'Send the table as the body with `Content-Type: text/csv` (a header row, then one row per record). The plan’s upload size and row limits apply.',
     scope: 'fit',
-    request: { query: uploadQuery, body: { required: true, description: 'The CSV table.', content: { 'text/csv': { schema: z.string().openapi({ example: 'avg_speed_kmh,weekly_distance_km\n27.5,140\n' }) } } } },
+    request: { query: uploadQuery, body: { required: true, description: 'The CSV table.', content: { 'text/csv': { schema: z.string().meta({ example: 'avg_speed_kmh,weekly_distance_km\n27.5,140\n' }) } } } },
     responses: { 201: json(z.object({ dataset: out.dataset }), 'The dataset as stored.'), ...keyRefusals, ...badInput, 402: refusal('Over a plan limit (rows or size).'), 413: refusal('Larger than the plan’s upload size.'), 415: refusal('Not a text/csv body.') },
   },
   { method: 'get', path: '/api/v1/datasets', tag: 'Datasets', summary: 'List datasets', scope: 'read', responses: { 200: json(z.object({ datasets: z.array(out.datasetListItem) }), 'Newest first.'), ...keyRefusals } },
@@ -193,8 +198,8 @@ const operations: Operation[] = [
     description: `Public: no key. The calculator page and host pages on the calculator’s allowed sites call it; servers may too. \`values\` maps each field’s feature name to a number (null leaves an optional field blank). Bodies are at most ${MAX_SCORE_BODY_BYTES} bytes; answers are rate-limited and metered against the plan.`,
     scope: null,
     request: {
-      params: z.object({ token: scoreTokenParam.shape.token.openapi({ description: 'The calculator’s token.', example: 'MatrixToken_abcdefghijklmn' }) }),
-      body: { required: true, content: { 'application/json': { schema: scoreBody.openapi({ example: { values: { avg_speed_kmh: 27.5, weekly_distance_km: 140 } } }) } } },
+      params: z.object({ token: scoreTokenParam.shape.token.meta({ description: 'The calculator’s token.', example: 'MatrixToken_abcdefghijklmn' }) }),
+      body: { required: true, content: { 'application/json': { schema: scoreBody.meta({ example: { values: { avg_speed_kmh: 27.5, weekly_distance_km: 140 } } }) } } },
     },
     responses: {
       200: json(out.scoreAnswer, 'Membership probabilities, the best group, typicality and the reason.'),
