@@ -6,6 +6,7 @@ import { openApiDocument } from '@/lib/api/openapi/registry';
 import { componentFields, referenceOf, type FieldRow, type OperationView } from '@/lib/api/openapi/reference';
 import { API_KEY_SCOPES, SCOPE_WORDS } from '@/lib/auth/api-key-schemas';
 
+export const dynamic = 'force-dynamic';
 export const metadata: Metadata = { title: 'API reference', description: 'The Partwise REST API: upload, fit, publish and read usage from your own scripts.' };
 
 const METHOD_TONE: Record<string, string> = {
