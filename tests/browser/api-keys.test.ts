@@ -48,12 +48,12 @@ describe('API keys in the studio', () => {
     const key = (await shown.textContent())!.trim();
     expect(key).toMatch(/^pwk_[0-9A-Za-z]{10}_[0-9A-Za-z]{40}$/);
     expect(await page.getByText('shown once').count()).toBeGreaterThan(0);
-    await page.getByRole('cell', { name: 'Nightly re-fit (browser)' }).waitFor();
+    await page.getByRole('cell', { name: 'Nightly re-fit (browser)', exact: true }).waitFor();
     await screenshot(page, 'api-keys-1-new-key');
 
     expect((await usage(key)).status).toBe(200);
     await page.reload();
-    await page.getByRole('cell', { name: 'Nightly re-fit (browser)' }).waitFor();
+    await page.getByRole('cell', { name: 'Nightly re-fit (browser)', exact: true }).waitFor();
     expect(await page.getByTestId('new-api-key').count(), 'the key is not shown again').toBe(0);
     expect(await page.content()).not.toContain(key.slice(15));
 
