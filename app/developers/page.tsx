@@ -17,6 +17,23 @@ const METHOD_TONE: Record<string, string> = {
   DELETE: 'bg-clay-100 text-clay-700',
 };
 
+/** One line of the document's words, with its `code` spans. */
+function Inline({ text }: { text: string }) {
+  return (
+    <>
+      {text.split(/`([^`]+)`/).map((part, j) =>
+        j % 2 ? (
+          <code key={j} className="rounded bg-paper-deep px-1 py-0.5 font-mono text-[0.8rem] text-ink">
+            {part}
+          </code>
+        ) : (
+          part
+        ),
+      )}
+    </>
+  );
+}
+
 /** `code` spans and paragraphs of the document's descriptions. */
 function Words({ text }: { text: string }) {
   return (
@@ -26,15 +43,7 @@ function Words({ text }: { text: string }) {
         .filter(Boolean)
         .map((para, i) => (
           <p key={i} className="mt-2 text-sm text-ink-soft">
-            {para.split(/`([^`]+)`/).map((part, j) =>
-              j % 2 ? (
-                <code key={j} className="rounded bg-paper-deep px-1 py-0.5 font-mono text-[0.8rem] text-ink">
-                  {part}
-                </code>
-              ) : (
-                part
-              ),
-            )}
+            <Inline text={para} />
           </p>
         ))}
     </>
@@ -110,7 +119,7 @@ function Operation({ op }: { op: OperationView }) {
             <li key={r.status} className="flex gap-3">
               <span className={`w-10 shrink-0 font-mono font-bold ${r.status.startsWith('2') ? 'text-moss-700' : 'text-clay-700'}`}>{r.status}</span>
               <span className="text-ink-soft">
-                {r.description}
+                <Inline text={r.description} />
                 {r.schema && r.status.startsWith('2') ? <code className="ml-2 font-mono text-[0.8rem] text-ink">{r.schema}</code> : null}
               </span>
             </li>

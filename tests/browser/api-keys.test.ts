@@ -83,5 +83,9 @@ describe('API keys in the studio', () => {
     for (const summary of summaries) expect(await page.getByRole('heading', { name: summary, exact: true }).count(), summary).toBe(1);
     expect(await page.getByText('scope: publish').count()).toBe(3);
     await screenshot(page, 'developers');
+    // The whole page is long; two views a person can read.
+    await page.screenshot({ path: 'test-results/screenshots/developers-top.png' });
+    await page.locator('#postApiV1Fits').scrollIntoViewIfNeeded();
+    await page.screenshot({ path: 'test-results/screenshots/developers-fit.png' });
   });
 });
