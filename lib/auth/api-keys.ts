@@ -5,8 +5,6 @@ import { ApiKey, Workspace } from '@/models';
 import { API_KEY_SCOPES, type ApiKeyScope } from '@/models/api-key-scopes';
 import { apiKeyCreateSchema, SCOPE_WORDS, type ApiKeyCreate } from './api-key-schemas';
 import { generateApiKey, hashApiKey, parseApiKey, sameHash } from './api-key-format';
-
-export { generateApiKey, hashApiKey, parseApiKey, sameHash, KEY_PREFIX_LENGTH, KEY_SECRET_LENGTH } from './api-key-format';
 import type { WorkspaceActor } from './guard';
 
 /**
@@ -16,8 +14,12 @@ import type { WorkspaceActor } from './guard';
  * once, when the key is made. Keys are read from `Authorization: Bearer …` only, never
  * from cookies, so a browser page on any site cannot make a signed-in person's browser
  * act with one. This module is part of lib/auth, the one place that checks roles and scopes.
+ *
+ * The `score` scope is for batch scoring (not built yet): its route calls
+ * `requireApiKey(request, 'score')` like the others, and keys can already carry it.
  */
 export { API_KEY_SCOPES, type ApiKeyScope, apiKeyCreateSchema, SCOPE_WORDS, type ApiKeyCreate };
+export { generateApiKey, hashApiKey, parseApiKey, sameHash, KEY_PREFIX_LENGTH, KEY_SECRET_LENGTH } from './api-key-format';
 
 /** `last_used_at` is written at most this often per key (every use is still audited). */
 export const LAST_USED_RESOLUTION_MS = 60_000;

@@ -3,6 +3,7 @@ import { requireApiKey } from '@/lib/auth/api-keys';
 import { recordAudit } from '@/lib/audit';
 import { createDataset, datasetSummary, listDatasets } from '@/lib/datasets';
 import { readUpload } from '@/lib/datasets/upload';
+import { discardBody } from '@/lib/http/body';
 import { parseWith, route } from '@/lib/http/handler';
 
 /** The workspace's datasets [read]. */
@@ -14,7 +15,13 @@ export const GET = route(async (request) => {
 /** Upload a table as a text/csv body, named by ?name= [fit]. */
 export const POST = route(async (request) => {
   const actor = await requireApiKey(request, 'fit');
-  parseWith(datasetUploadQuery, Object.fromEntries(new URL(request.url).searchParams), 'query');
+  try {
+    parseWith(datasetUploadQuery, Object.fromEntries(new URL(request.url).searchParams), 'query');
+  } catch (error) {
+    // Refused before the body is read: drain it, as readUpload does for its own refusals.
+    await discardBody(request.body);
+    throw error;
+  }
   const upload = await readUpload(request, actor.workspace.id);
   const dataset = await createDataset({ workspaceId: actor.workspace.id, userId: null, ...upload });
   await recordAudit({ action: 'dataset.upload', ...keyAuditWho(actor), workspaceId: actor.workspace.id, targetType: 'dataset', targetId: dataset.id, detail: { rows: dataset.rowCount, bytes: upload.bytes.length }, request });
