@@ -109,4 +109,21 @@ describe('the OpenAPI document', () => {
     expect(wait).toMatchObject({ in: 'query', required: false });
     expect(componentFields(doc, 'Ranking').map((f) => f.name)).toEqual(expect.arrayContaining(['candidates', 'candidates[].bic', 'candidates[].aic']));
   });
+
+  it("names only documented operations in the README's curl example, and the example covers the job", () => {
+    const readme = fs.readFileSync('README.md', 'utf8');
+    const section = readme.slice(readme.indexOf('## Automating with the API'), readme.indexOf('\n## ', readme.indexOf('## Automating with the API') + 5));
+    const calls = [...section.matchAll(/curl -sS (?:-X (GET|POST|PUT|PATCH|DELETE) )?"\$PARTWISE_URL(\/api\/v1\/[^"?]*)/g)].map((m) => {
+      const templated = m[2].replace(/\/\d+(?=\/|$)/g, (seg, offset: number, whole: string) => {
+        const before = whole.slice(0, offset);
+        return /\/(datasets|fits|models|calculators)$/.test(before) ? '/{id}' : seg;
+      });
+      return `${(m[1] ?? 'GET').toLowerCase()} ${templated}`;
+    });
+    const documented = operationsInDocument();
+    expect(calls.filter((c) => !documented.includes(c)), 'README curl calls with no such operation').toEqual([]);
+    for (const step of ['post /api/v1/datasets', 'post /api/v1/fits', 'get /api/v1/fits/{id}', 'get /api/v1/fits/{id}/ranking', 'post /api/v1/models', 'patch /api/v1/models/{id}', 'post /api/v1/calculators/{id}/versions', 'put /api/v1/calculators/{id}/served-version', 'get /api/v1/usage']) {
+      expect(calls, step).toContain(step);
+    }
+  });
 });
