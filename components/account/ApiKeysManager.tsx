@@ -23,7 +23,7 @@ export interface ApiKeyRow {
 type Values = z.input<typeof apiKeyCreateSchema>;
 
 function keyState(k: ApiKeyRow, now: number): { words: string; tone: string } {
-  if (k.revokedAt) return { words: `Revoked ${formatDateTime(k.revokedAt)}`, tone: 'bg-clay-100 text-clay-700' };
+  if (k.revokedAt) return { words: 'Revoked', tone: 'bg-clay-100 text-clay-700' };
   if (k.expiresAt && new Date(k.expiresAt).getTime() <= now) return { words: 'Expired', tone: 'bg-paper-deep text-ink-soft' };
   return { words: 'Active', tone: 'bg-moss-100 text-moss-900' };
 }
@@ -113,7 +113,8 @@ export function ApiKeysManager({ keys }: { keys: ApiKeyRow[] }) {
                     <td className="px-3 py-3 text-ink-soft">{k.expiresAt ? formatDateTime(k.expiresAt) : 'never'}</td>
                     <td className="px-3 py-3 text-ink-soft">{k.lastUsedAt ? formatDateTime(k.lastUsedAt) : 'not yet'}</td>
                     <td className="px-6 py-3 text-right">
-                      <span className={`rounded-full px-2 py-0.5 text-xs font-bold ${state.tone}`}>{state.words}</span>
+                      <span className={`whitespace-nowrap rounded-full px-2 py-0.5 text-xs font-bold ${state.tone}`}>{state.words}</span>
+                      {k.revokedAt ? <div className="mt-1 text-xs text-ink-faint">{formatDateTime(k.revokedAt)}</div> : null}
                       {!k.revokedAt ? (
                         <button type="button" className="ml-3 text-sm font-bold text-clay-700 hover:underline disabled:opacity-50" disabled={busy !== null} onClick={() => revoke(k)}>
                           Revoke<span className="sr-only"> {k.name}</span>

@@ -33,8 +33,8 @@ export function StudioHeader(props: { user: { name: string; email: string }; isS
         <div className="flex-1 lg:flex-1">
           <StudioNav items={items} />
         </div>
-        {/* At phone widths the menu shows initials only; the name is inside it. */}
-        <div className="min-w-0 max-sm:[&_summary>span:last-child]:hidden max-sm:[&_summary]:pr-1">
+        {/* At phone widths, and where the full row of links is just short of room (lg to xl), the menu shows initials only; the name is inside it. */}
+        <div className="min-w-0 max-sm:[&_summary>span:last-child]:hidden max-sm:[&_summary]:pr-1 lg:max-xl:[&_summary>span:last-child]:hidden lg:max-xl:[&_summary]:pr-1">
           <UserMenu name={props.user.name} email={props.user.email} role={roleLabel} />
         </div>
       </div>

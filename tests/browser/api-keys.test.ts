@@ -64,6 +64,25 @@ describe('API keys in the studio', () => {
     expect((await usage(key)).status).toBe(401);
   });
 
+  it("the owner's header still fits one row at 1024 px with the API keys link", async () => {
+    const context = await browser.newContext({ viewport: { width: 1024, height: 800 } });
+    const owner = await User.findOne({ where: { email: DEMO_USERS.owner.email } });
+    await signInContext(context, owner!.id);
+    const p = await context.newPage();
+    await p.goto(appUrl('/studio/api-keys'));
+    const nav = p.getByRole('navigation', { name: 'Studio' });
+    await nav.getByRole('link', { name: 'API keys' }).waitFor();
+    expect(await nav.getByRole('link', { name: 'API keys' }).getAttribute('aria-current')).toBe('page');
+    const width = await p.evaluate(() => document.documentElement.scrollWidth);
+    expect(width).toBeLessThanOrEqual(1024);
+    // One row: the user menu sits level with the links (initials only at this width).
+    const linkBox = (await nav.getByRole('link', { name: 'API keys' }).boundingBox())!;
+    const menuBox = (await p.locator('header summary').first().boundingBox())!;
+    expect(Math.abs(menuBox.y + menuBox.height / 2 - (linkBox.y + linkBox.height / 2))).toBeLessThan(12);
+    await p.screenshot({ path: 'test-results/screenshots/api-keys-header-1024.png' });
+    await context.close();
+  });
+
   it('sends a member back to the studio with the owners-only notice', async () => {
     const member = await User.findOne({ where: { email: DEMO_USERS.member.email } });
     const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
