@@ -3,6 +3,7 @@ import type { Browser, Page } from 'playwright-core';
 import { DEMO_USERS } from '@/lib/demo/accounts';
 import { User } from '@/models';
 import { appUrl, launchBrowser, screenshot, signInContext } from '../helpers/browser';
+import { describeViolations, isSerious, runAxe } from '../helpers/axe';
 
 /**
  * The seeded owner makes a key in the studio, sees it once, uses it from outside the
@@ -61,6 +62,8 @@ describe('API keys in the studio', () => {
     await page.getByRole('button', { name: 'Revoke Nightly re-fit (browser)' }).click();
     await page.getByText('was revoked').waitFor();
     await screenshot(page, 'api-keys-2-revoked');
+    const axe = await runAxe(page, 'studio-api-keys');
+    expect(axe.violations.filter(isSerious), describeViolations(axe, isSerious)).toEqual([]);
     expect((await usage(key)).status).toBe(401);
   });
 
@@ -102,6 +105,8 @@ describe('API keys in the studio', () => {
     for (const summary of summaries) expect(await page.getByRole('heading', { name: summary, exact: true }).count(), summary).toBe(1);
     expect(await page.getByText('scope: publish').count()).toBe(3);
     await screenshot(page, 'developers');
+    const axe = await runAxe(page, 'developers');
+    expect(axe.violations.filter(isSerious), describeViolations(axe, isSerious)).toEqual([]);
     // The whole page is long; two views a person can read.
     await page.screenshot({ path: 'test-results/screenshots/developers-top.png' });
     await page.locator('#postApiV1Fits').scrollIntoViewIfNeeded();
