@@ -8,6 +8,8 @@ import { AuditEvent } from '@/models';
 export interface AuditEntry {
   action: string;
   actor?: { id: number; email: string } | null;
+  /** Who acted when no signed-in person did, e.g. `API key "nightly" (pwk_ab12…)` (see apiKeyActorLabel). */
+  actorLabel?: string | null;
   workspaceId?: number | null;
   targetType?: string;
   targetId?: string | number;
@@ -26,11 +28,16 @@ export async function recordAudit(entry: AuditEntry): Promise<void> {
   await AuditEvent.create({
     action: entry.action,
     actorUserId: entry.actor?.id ?? null,
-    actorEmail: entry.actor?.email ?? null,
+    actorEmail: entry.actor?.email ?? (entry.actorLabel ? entry.actorLabel.slice(0, 320) : null),
     workspaceId: entry.workspaceId ?? null,
     targetType: entry.targetType ?? null,
     targetId: entry.targetId === undefined ? null : String(entry.targetId),
     detail: entry.detail ?? {},
     address: clientAddress(entry.request),
   });
+}
+
+/** How the trail names a workspace API key that acted (stored where a person's e-mail would be). */
+export function apiKeyActorLabel(key: { name: string; prefix: string }): string {
+  return `API key "${key.name}" (pwk_${key.prefix})`;
 }

@@ -19,10 +19,11 @@ import { WebhookEvent } from './WebhookEvent';
 import { InsightBins } from './InsightBins';
 import { InsightCount } from './InsightCount';
 import { InsightAlert } from './InsightAlert';
+import { ApiKey } from './ApiKey';
 
 export const sequelize = getSequelize();
 
-const all = [User, Workspace, Membership, Invitation, AuthToken, Dataset, Fit, MixtureModel, ModelVersion, Embed, UsageCounter, Subscription, Invoice, AbuseReport, AuditEvent, MailMessage, WebhookEvent, InsightBins, InsightCount, InsightAlert];
+const all = [User, Workspace, Membership, Invitation, AuthToken, Dataset, Fit, MixtureModel, ModelVersion, Embed, UsageCounter, Subscription, Invoice, AbuseReport, AuditEvent, MailMessage, WebhookEvent, InsightBins, InsightCount, InsightAlert, ApiKey];
 
 // A model class binds to one Sequelize instance; initialise once per process.
 if (!User.sequelize) {
@@ -53,9 +54,12 @@ if (!User.sequelize) {
   Workspace.hasOne(Subscription, { foreignKey: 'workspaceId' });
   Subscription.belongsTo(Workspace, { foreignKey: 'workspaceId' });
   Workspace.hasMany(Invoice, { foreignKey: 'workspaceId' });
+  Workspace.hasMany(ApiKey, { foreignKey: 'workspaceId' });
+  ApiKey.belongsTo(Workspace, { foreignKey: 'workspaceId' });
 }
 
-export { User, Workspace, Membership, Invitation, AuthToken, Dataset, Fit, MixtureModel, ModelVersion, Embed, UsageCounter, Subscription, Invoice, AbuseReport, AuditEvent, MailMessage, WebhookEvent, InsightBins, InsightCount, InsightAlert };
+export { User, Workspace, Membership, Invitation, AuthToken, Dataset, Fit, MixtureModel, ModelVersion, Embed, UsageCounter, Subscription, Invoice, AbuseReport, AuditEvent, MailMessage, WebhookEvent, InsightBins, InsightCount, InsightAlert, ApiKey };
+export type { ApiKeyScope } from './ApiKey';
 export type { WorkspaceRole } from './Membership';
 export type { DatasetColumn } from './Dataset';
 export type { ClusterLabel, FieldSetting } from './MixtureModel';

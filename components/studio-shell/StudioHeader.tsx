@@ -14,7 +14,7 @@ export function StudioHeader(props: { user: { name: string; email: string }; isS
   const items: NavItem[] = [];
   if (props.role) {
     items.push({ href: '/studio/datasets', label: 'Datasets' }, { href: '/studio/fits', label: 'Fits' }, { href: '/studio/models', label: 'Models' }, { href: '/studio/calculators', label: 'Calculators' }, { href: '/studio/team', label: 'Team' });
-    if (props.role === 'owner') items.push({ href: '/studio/billing', label: 'Billing' });
+    if (props.role === 'owner') items.push({ href: '/studio/billing', label: 'Billing' }, { href: '/studio/api-keys', label: 'API keys' });
   }
   if (props.isStaff) items.push({ href: '/support', label: 'Support' });
   const roleLabel = props.isStaff ? 'Partwise staff' : props.role === 'owner' ? 'Owner of this workspace' : props.role === 'member' ? 'Member of this workspace' : 'No workspace';
@@ -33,8 +33,8 @@ export function StudioHeader(props: { user: { name: string; email: string }; isS
         <div className="flex-1 lg:flex-1">
           <StudioNav items={items} />
         </div>
-        {/* At phone widths the menu shows initials only; the name is inside it. */}
-        <div className="min-w-0 max-sm:[&_summary>span:last-child]:hidden max-sm:[&_summary]:pr-1">
+        {/* At phone widths, and where the full row of links is just short of room (lg to xl), the menu shows initials only; the name is inside it. */}
+        <div className="min-w-0 max-sm:[&_summary>span:last-child]:hidden max-sm:[&_summary]:pr-1 lg:max-xl:[&_summary>span:last-child]:hidden lg:max-xl:[&_summary]:pr-1">
           <UserMenu name={props.user.name} email={props.user.email} role={roleLabel} />
         </div>
       </div>

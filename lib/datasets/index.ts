@@ -17,7 +17,8 @@ export { MIN_DATA_ROWS } from './parse';
 
 export interface UploadInput {
   workspaceId: number;
-  userId: number;
+  /** Null when a workspace API key uploads. */
+  userId: number | null;
   bytes: Uint8Array;
   filename: string;
   name?: string;

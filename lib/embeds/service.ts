@@ -1,7 +1,7 @@
 import { nanoid } from 'nanoid';
 import { z } from 'zod';
 import { storedText } from '@/lib/http/text';
-import { recordAudit } from '@/lib/audit';
+import { apiKeyActorLabel, recordAudit } from '@/lib/audit';
 import { AppError } from '@/lib/errors';
 import { invalidateEmbed } from '@/lib/scoring/served';
 import { fixInsightBins } from '@/lib/insight/bins';
@@ -13,13 +13,21 @@ import { allowedOriginsSchema } from './origins';
 import { payloadChecksum, storedPayloadProblem, typicalitySampleFor, validatePayload, type VersionPayload } from './payload';
 
 /**
- * Publishing and managing calculators. Each function takes the acting user and their
+ * Publishing and managing calculators. Each function takes who acts and their
  * workspace (already checked by lib/auth) and loads records by id AND workspace.
+ * Who acts is a signed-in person (`user`) or a workspace API key (`apiKey`, with `user`
+ * null: the key's creator is not the actor); the audit trail names the one that acted.
  */
 export interface Acting {
-  user: Pick<User, 'id' | 'email'>;
+  user: Pick<User, 'id' | 'email'> | null;
+  apiKey?: { id: number; name: string; prefix: string } | null;
   workspace: Pick<Workspace, 'id'>;
   request?: Request;
+}
+
+/** The audit fields for whoever acts (lib/audit.ts recordAudit). */
+export function auditWho(acting: Pick<Acting, 'user' | 'apiKey'>) {
+  return { actor: acting.user, actorLabel: acting.apiKey ? apiKeyActorLabel(acting.apiKey) : null };
 }
 
 /** Unguessable: 24 characters of nanoid's URL-safe alphabet (~143 bits). */
@@ -46,6 +54,17 @@ export const publishSchema = z
     allowedOrigins: allowedOriginsSchema.optional(),
   })
   .strict();
+
+/** Publish again (POST …/versions): another model of the workspace, or the calculator's own; served at once unless `activate` is false. */
+export const publishVersionSchema = z
+  .object({
+    mixtureModelId: z.number({ error: 'Give the model id as a number.' }).int().positive().optional(),
+    activate: z.boolean({ error: 'Say true or false.' }).optional(),
+  })
+  .strict();
+
+/** Choose the served version (roll back or forward). */
+export const servedVersionSchema = z.object({ versionId: z.number({ error: 'Give the version id as a number.' }).int().positive() }).strict();
 
 export async function findEmbed(acting: Acting, embedId: number): Promise<Embed> {
   const embed = await Embed.findOne({ where: { id: embedId, workspaceId: acting.workspace.id } });
@@ -85,7 +104,7 @@ export async function publishNew(acting: Acting, input: z.infer<typeof publishSc
       { workspaceId: acting.workspace.id, mixtureModelId: model.id, token: newToken(), title: input.title ?? model.name, allowedOrigins: input.allowedOrigins ?? [] },
       { transaction },
     );
-    const version = await ModelVersion.create({ embedId: embed.id, mixtureModelId: model.id, createdById: acting.user.id, number: 1, payload, checksum }, { transaction });
+    const version = await ModelVersion.create({ embedId: embed.id, mixtureModelId: model.id, createdById: acting.user?.id ?? null, number: 1, payload, checksum }, { transaction });
     await embed.update({ activeVersionId: version.id }, { transaction });
     return { embed, version };
   });
@@ -109,7 +128,7 @@ export async function publishVersion(acting: Acting, embedId: number, opts: { mi
   const version = await sequelize.transaction(async (transaction) => {
     const last = (await ModelVersion.max('number', { where: { embedId: embed.id }, transaction })) as number | null;
     const v = await ModelVersion.create(
-      { embedId: embed.id, mixtureModelId: model.id, createdById: acting.user.id, number: (last ?? 0) + 1, payload, checksum },
+      { embedId: embed.id, mixtureModelId: model.id, createdById: acting.user?.id ?? null, number: (last ?? 0) + 1, payload, checksum },
       { transaction },
     );
     await embed.update({ mixtureModelId: model.id, ...(opts.activate === false ? {} : { activeVersionId: v.id }) }, { transaction });
@@ -227,5 +246,5 @@ export function describeVersion(v: ModelVersion) {
 }
 
 async function audit(acting: Acting, action: string, embed: Embed, detail: Record<string, unknown>) {
-  await recordAudit({ action, actor: acting.user, workspaceId: acting.workspace.id, targetType: 'embed', targetId: embed.id, detail: { title: embed.title, ...detail }, request: acting.request });
+  await recordAudit({ action, ...auditWho(acting), workspaceId: acting.workspace.id, targetType: 'embed', targetId: embed.id, detail: { title: embed.title, ...detail }, request: acting.request });
 }

@@ -122,7 +122,7 @@ function queueCapError(plan: Plan, open: number, limit: number): AppError {
  * a slot is free. The plan's cap on waiting and running fits is counted and the row
  * inserted in one IMMEDIATE transaction, so simultaneous requests cannot overshoot it.
  */
-export async function startFit(workspaceId: number, userId: number, input: unknown): Promise<Fit> {
+export async function startFit(workspaceId: number, userId: number | null, input: unknown): Promise<Fit> {
   const params = parseWith(fitParamsSchema, input, 'fit settings');
   const dataset = await findDataset(workspaceId, params.datasetId);
   const matrix = featureMatrix(dataset, params.features);

@@ -25,7 +25,7 @@ export const createModelSchema = z.object({
   selectionNote: storedText('The note').trim().max(2000, 'Keep the note under 2,000 characters.').default(''),
 });
 
-export async function createModelFromFit(workspaceId: number, userId: number, input: unknown): Promise<MixtureModel> {
+export async function createModelFromFit(workspaceId: number, userId: number | null, input: unknown): Promise<MixtureModel> {
   const body = parseWith(createModelSchema, input, 'model');
   const fit = await findFit(workspaceId, body.fitId);
   const result = fitResult(fit);

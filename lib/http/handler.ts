@@ -6,7 +6,12 @@ import { assertSameOrigin } from './origin';
 
 /** zod issues → our field issues, with dotted paths a form can map back to fields. */
 export function zodIssues(error: ZodError): FieldIssue[] {
-  return error.issues.map((i) => ({ field: i.path.map(String).join('.') || '(body)', message: i.message }));
+  return error.issues.flatMap((i) => {
+    const at = i.path.map(String);
+    // A strict object's unknown keys: one issue per key, named by its own path.
+    if (i.code === 'unrecognized_keys') return i.keys.map((k) => ({ field: [...at, k].join('.'), message: `is not a field here (${i.message}).` }));
+    return [{ field: at.join('.') || '(body)', message: i.message }];
+  });
 }
 
 export function parseWith<T>(schema: ZodType<T>, value: unknown, what = 'input'): T {

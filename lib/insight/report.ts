@@ -49,7 +49,8 @@ export async function insightReport(acting: Acting, embedId: number, query: Repo
   const readFrom = addDays(to, -29) < from ? addDays(to, -29) : from;
   const rows = await readCounts(embed.id, readFrom, to, filter);
   const groupsOf = new Map(versions.map((v) => [v.id, v.groups.length]));
-  const alertRow = await InsightAlert.findOne({ where: { embedId: embed.id, userId: acting.user.id } });
+  // Mail settings are a member's own; a key acts for no one, so it sees the defaults.
+  const alertRow = acting.user ? await InsightAlert.findOne({ where: { embedId: embed.id, userId: acting.user.id } }) : null;
 
   const chosenId = filter ?? embed.activeVersionId ?? versions.at(-1)?.id ?? null;
   let analysis: ReturnType<typeof analyseFields> | null = null;

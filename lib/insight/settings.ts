@@ -1,3 +1,4 @@
+import { AppError } from '@/lib/errors';
 import { z } from 'zod';
 import { recordAudit } from '@/lib/audit';
 import { findEmbed, type Acting } from '@/lib/embeds/service';
@@ -42,11 +43,13 @@ export async function setInsightEnabled(acting: Acting, embedId: number, enabled
 
 /** The acting member's weekly mail for a calculator. */
 export async function setAlertSettings(acting: Acting, embedId: number, input: AlertSettingsInput): Promise<InsightAlertSettings> {
+  const user = acting.user;
+  if (!user) throw new AppError('forbidden', 'Mail settings belong to a member; sign in to choose yours.');
   const embed = await findEmbed(acting, embedId);
   const values = { subscribed: input.subscribed, driftThreshold: input.driftThreshold, unusualShare: input.unusualShare };
-  let row = await InsightAlert.findOne({ where: { embedId: embed.id, userId: acting.user.id } });
+  let row = await InsightAlert.findOne({ where: { embedId: embed.id, userId: user.id } });
   if (row) await row.update(values);
-  else row = await InsightAlert.create({ embedId: embed.id, userId: acting.user.id, ...values });
+  else row = await InsightAlert.create({ embedId: embed.id, userId: user.id, ...values });
   return { subscribed: row.subscribed, driftThreshold: row.driftThreshold, unusualShare: row.unusualShare, lastSentAt: row.lastSentAt ? new Date(row.lastSentAt).toISOString() : null };
 }
 

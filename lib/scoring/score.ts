@@ -49,7 +49,8 @@ export interface AnswerReason {
 /** Scoring bodies are a few numbers; anything bigger is refused before parsing. */
 export const MAX_SCORE_BODY_BYTES = 4 * 1024;
 
-const bodySchema = z.object({ values: z.unknown() }).strict();
+/** The body of one visitor's answer: `values` maps each field's feature name to a number (or null for a blank optional field). */
+export const scoreBodySchema = z.object({ values: z.unknown() }).strict();
 
 /** The token in the route's address. */
 export const scoreTokenParam = z.object({ token: z.string().max(64) });
@@ -157,7 +158,7 @@ export async function scoreForToken(token: string, call: ScoreCall): Promise<{ a
   const byToken = takeToken(`score:token:${embed.id}`, rules.perToken);
   if (!byToken.ok) throw limited(byToken.retryAfterSeconds, 'for this calculator right now');
 
-  const body = await readJson(call, bodySchema, { maxBytes: MAX_SCORE_BODY_BYTES });
+  const body = await readJson(call, scoreBodySchema, { maxBytes: MAX_SCORE_BODY_BYTES });
   const version = await loadServedVersion(embed.activeVersionId!);
   const values = parseValues(version, body.values);
 

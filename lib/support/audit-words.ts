@@ -3,7 +3,7 @@
  * words for the detail fields (never raw keys). Pure, so the support pages and tests
  * share it. Actions not listed still show, by their code.
  */
-import { formatCount } from '@/lib/format';
+import { formatCount, formatDateTime } from '@/lib/format';
 
 export const ACTION_LABELS: Record<string, string> = {
   'support.embed_disabled': 'Switched off by support',
@@ -42,6 +42,10 @@ export const ACTION_LABELS: Record<string, string> = {
   'dataset.upload': 'Dataset uploaded',
   'dataset.delete': 'Dataset deleted',
   'model.create': 'Model saved',
+  'api_key.create': 'API key made',
+  'api_key.revoke': 'API key revoked',
+  'api_key.use': 'API key used',
+  'api_key.refused': 'API key refused',
   'billing.checkout_started': 'Checkout started',
   'billing.plan_changed': 'Plan changed',
   'billing.change_requested': 'Plan change asked for',
@@ -78,6 +82,12 @@ const DETAIL_WORDS: [key: string, words: string][] = [
   ['email', 'E-mail'],
   ['type', 'Kind'],
   ['eventType', 'Payment event'],
+  ['name', 'Name'],
+  ['scopes', 'Scopes'],
+  ['expiresAt', 'Expires'],
+  ['method', 'Request'],
+  ['path', 'Address'],
+  ['scope', 'Scope used'],
 ];
 
 const SETTING_WORDS: Record<string, string> = {
@@ -91,6 +101,7 @@ const SETTING_WORDS: Record<string, string> = {
 
 function valueWords(key: string, value: unknown): string {
   if (key === 'version' && typeof value === 'number') return `v${value}`;
+  if (key === 'expiresAt' && typeof value === 'string') return formatDateTime(value);
   if (key === 'changes' && Array.isArray(value)) {
     return value
       .map((c: { setting?: string; from?: unknown; to?: unknown }) => `${SETTING_WORDS[c.setting ?? ''] ?? c.setting} ${valueWords('', c.from)} → ${valueWords('', c.to)}`)

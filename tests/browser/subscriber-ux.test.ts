@@ -243,7 +243,7 @@ describe('a new subscriber in the studio', () => {
     await screenshot(p, 'subscriber-phone-datasets');
     await menu.click();
     const list = p.locator('#studio-menu');
-    await expect(list.getByRole('link').allTextContents()).resolves.toEqual(['Datasets', 'Fits', 'Models', 'Calculators', 'Team', 'Billing']);
+    await expect(list.getByRole('link').allTextContents()).resolves.toEqual(['Datasets', 'Fits', 'Models', 'Calculators', 'Team', 'Billing', 'API keys']);
     await screenshot(p, 'subscriber-phone-menu-open');
     await list.getByRole('link', { name: 'Models' }).click();
     await p.waitForURL(/\/studio\/models$/);

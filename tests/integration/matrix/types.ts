@@ -48,3 +48,26 @@ export interface Exemption {
   file: string;
   why: string;
 }
+
+/**
+ * Key-authenticated routes (/api/v1): the same routes called with workspace API keys
+ * instead of sessions (tests/integration/matrix-keys.test.ts). `key`: a key of A with
+ * every scope; `workspace B's key`: B's key with every scope, on A's ids.
+ */
+export const KEY_CALLERS = ['no key', 'session cookie, no key', 'revoked key', 'expired key', 'key without the scope', "workspace B's key", 'key'] as const;
+export type KeyCaller = (typeof KEY_CALLERS)[number];
+
+export interface KeyMatrixRow {
+  file: string;
+  method: Method;
+  /** The scope the route asks for; `key without the scope` holds every other one. */
+  scope: 'read' | 'fit' | 'publish' | 'score';
+  url: (w: World) => string;
+  params?: (w: World) => Record<string, string>;
+  /** JSON body (valid, so that the key decides the status). */
+  body?: (w: World) => unknown;
+  /** A raw body with its content type, instead of JSON. */
+  raw?: (w: World) => { body: string; contentType: string };
+  expect: Record<KeyCaller, number | number[]>;
+  note?: string;
+}

@@ -1,6 +1,5 @@
-import { z } from 'zod';
 import { requireWorkspace } from '@/lib/auth/guard';
-import { describeEmbed, setActiveVersion } from '@/lib/embeds/service';
+import { describeEmbed, servedVersionSchema, setActiveVersion } from '@/lib/embeds/service';
 import { idParam, readJson, readParams, route } from '@/lib/http/handler';
 
 type Ctx = { params: Promise<{ id: string }> };
@@ -9,7 +8,7 @@ type Ctx = { params: Promise<{ id: string }> };
 export const PUT = route<Ctx>(async (request, { params }) => {
   const actor = await requireWorkspace(request, 'member');
   const { id } = await readParams(params, idParam);
-  const { versionId } = await readJson(request, z.object({ versionId: z.number().int().positive() }).strict());
+  const { versionId } = await readJson(request, servedVersionSchema);
   const embed = await setActiveVersion({ ...actor, request }, id, versionId);
   return Response.json({ embed: describeEmbed(embed) });
 });
