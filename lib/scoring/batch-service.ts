@@ -1,7 +1,8 @@
+import { z } from 'zod';
 import { Embed, Workspace } from '@/models';
 import { AppError } from '@/lib/errors';
 import { formatCount } from '@/lib/format';
-import { readBytesCapped, readTextCapped } from '@/lib/http/body';
+import { discardBody, readBytesCapped, readTextCapped } from '@/lib/http/body';
 import { batchBodyBytes, BATCH_ROWS_PER_REQUEST } from '@/lib/plans';
 import { recordAnswers } from '@/lib/usage';
 import { answersLeft, readyLedger, releaseAnswers, reserveAnswers, waitForLedger, type AnswerLedger } from './allowance';
@@ -39,6 +40,16 @@ async function ledgerOf(workspaceId: number): Promise<AnswerLedger> {
 }
 
 export async function scoreBatchRequest(req: BatchRequest): Promise<BatchAnswer> {
+  try {
+    return await scoreBatchNow(req);
+  } catch (error) {
+    // Refused before the body was read (no calculator, nothing served): drain it.
+    await discardBody(req.body);
+    throw error;
+  }
+}
+
+async function scoreBatchNow(req: BatchRequest): Promise<BatchAnswer> {
   const embed = await Embed.findOne({ where: { id: req.embedId, workspaceId: req.workspaceId } });
   if (!embed) throw new AppError('not_found', 'There is no such calculator in this workspace.');
   const workspace = await Workspace.findByPk(req.workspaceId, { attributes: ['id', 'suspendedAt'] });
@@ -85,9 +96,11 @@ export async function scoreBatchRequest(req: BatchRequest): Promise<BatchAnswer>
   return { stream: textStream(blocks), contentType: req.format === 'csv' ? 'text/csv; charset=utf-8' : 'application/json; charset=utf-8', rows: rows.n, version: version.number };
 }
 
-/** The answer's format: `?format=` first, then the Accept header; JSON unless CSV is asked for. */
-export function batchFormat(query: string | null, accept: string | null): BatchFormat {
-  if (query === 'csv' || query === 'json') return query;
-  if (query !== null) throw new AppError('invalid_input', 'format must be csv or json.', { issues: [{ field: 'format', message: 'Use csv or json.' }] });
+/** The batch route's query: the answer's format, else the Accept header decides. */
+export const batchQuery = z.strictObject({ format: z.enum(['csv', 'json'], { error: 'format must be csv or json.' }).optional() });
+
+/** The answer's format: `?format=` first, then the Accept header; JSON unless only CSV is asked for. */
+export function batchFormat(query: BatchFormat | undefined, accept: string | null): BatchFormat {
+  if (query) return query;
   return accept && /\btext\/csv\b/i.test(accept) && !/\bapplication\/json\b/i.test(accept) ? 'csv' : 'json';
 }

@@ -17,6 +17,8 @@ import { createModelSchema, updateModelSchema } from '@/lib/fitting/models';
 import { fitParamsSchema } from '@/lib/fitting/params';
 import { idParam } from '@/lib/http/handler';
 import { MAX_SCORE_BODY_BYTES, scoreBodySchema, scoreTokenParam } from '@/lib/scoring';
+import { batchQuery } from '@/lib/scoring/batch-service';
+import { BATCH_ROWS_PER_REQUEST } from '@/lib/plans';
 import { SCOPE_WORDS } from '@/lib/auth/api-key-schemas';
 import type { ApiKeyScope } from '@/models/api-key-scopes';
 import * as out from './schemas';
@@ -188,6 +190,38 @@ const operations: Operation[] = [
     scope: 'publish',
     request: { params: idPath, body: { required: true, content: { 'application/json': { schema: servedVersionSchema } } } },
     responses: { 200: json(z.object({ calculator: out.calculator }), 'The calculator, serving the version.'), ...keyRefusals, ...notFound, ...badInput, 409: refusal('The calculator is retired, or the version is damaged.') },
+  },
+  {
+    method: 'post',
+    path: '/api/v1/calculators/{id}/scores',
+    tag: 'Calculators',
+    summary: 'Score a batch of rows',
+    description: `Rows scored against the served version, one metered answer per row. Send \`text/csv\` (a header naming the model's fields; extra columns are ignored) or \`application/json\` ({"rows": [...]}: arrays in the model's field order, or objects keyed by field name; null leaves an optional field blank). The answer is JSON unless \`?format=csv\` or \`Accept: text/csv\`, and streams as it is written. Per request: ${Object.entries(BATCH_ROWS_PER_REQUEST).map(([plan, rows]) => `${plan} ${rows.toLocaleString('en')} rows`).join(', ')}; a batch with more rows than answers left this month is refused whole.`,
+    scope: 'score',
+    request: {
+      params: idPath,
+      query: z.object({ format: batchQuery.shape.format.meta({ description: 'csv or json; left out, the Accept header decides (JSON by default).', example: 'csv' }) }).strict(),
+      body: {
+        required: true,
+        content: {
+          'text/csv': { schema: z.string().meta({ example: 'avg_speed_kmh,weekly_distance_km,climb_per_ride_m\n27.5,140,420\n19,60,150\n' }) },
+          'application/json': { schema: out.batchRows },
+        },
+      },
+    },
+    responses: {
+      200: {
+        description: 'One answer per row, in the order sent.',
+        content: { 'application/json': { schema: out.batchAnswer }, 'text/csv': { schema: z.string().meta({ example: 'row,p Easy social,p Fast pack,best,log_density,typicality,unusual\n1,0.91,0.09,Easy social,-9.8412,41.5,0\n' }) } },
+      },
+      ...keyRefusals,
+      ...notFound,
+      ...badInput,
+      402: refusal('More rows than the plan takes per request, or than answers left this month. Nothing was scored.'),
+      409: refusal('The calculator serves no version, or is disabled.'),
+      413: refusal('The body is larger than the plan allows.'),
+      415: refusal('Neither text/csv nor application/json.'),
+    },
   },
   { method: 'get', path: '/api/v1/usage', tag: 'Usage', summary: 'Read this month’s usage', scope: 'read', responses: { 200: json(z.object({ usage: out.usage }), 'Answers per calculator and the plan’s allowance.'), ...keyRefusals } },
   {

@@ -136,7 +136,7 @@ export const scoreAnswer = z
     probabilities: z.array(z.object({ index: z.number().int(), label: z.string(), color: z.string(), probability: z.number() })),
     best: z.object({ index: z.number().int(), label: z.string(), description: z.string(), probability: z.number() }),
     logDensity: z.number(),
-    typicality: z.number().meta({ description: 'Share of the model’s own sample less typical than these values (0–1).' }),
+    typicality: z.number().meta({ description: 'Percentile (0–100) of these values’ log density among the model’s own sample: low means unlike the data.' }),
     unusual: z.boolean(),
     threshold: z.number(),
     used: z.array(z.string()),
@@ -144,5 +144,33 @@ export const scoreAnswer = z
     reason: z.record(z.string(), z.unknown()).nullable(),
   })
   .meta({ id: 'ScoreAnswer' });
+
+/** A batch's rows as JSON. */
+export const batchRows = z
+  .object({
+    rows: z
+      .array(z.union([z.array(z.number().nullable()), z.record(z.string(), z.number().nullable())]))
+      .meta({ description: 'Each row an array in the model’s field order, or an object keyed by field name; null leaves an optional field blank.', example: [[27.5, 140, 420], { avg_speed_kmh: 19, weekly_distance_km: 60, climb_per_ride_m: null }] }),
+  })
+  .strict()
+  .meta({ id: 'BatchRows' });
+
+export const batchAnswer = z
+  .object({
+    version: z.number().int().meta({ description: 'The version that scored the rows.' }),
+    groups: z.array(z.object({ index: z.number().int(), label: z.string() })),
+    count: z.number().int(),
+    rows: z.array(
+      z.object({
+        row: z.number().int().meta({ description: 'The row’s place in the batch, from 1.' }),
+        probabilities: z.array(z.number()).meta({ description: 'Membership probability per group, in group order, to 6 decimals.' }),
+        best: z.number().int().meta({ description: 'Index of the most likely group.' }),
+        logDensity: z.number(),
+        typicality: z.number().meta({ description: 'Percentile (0–100) among the model’s own sample.' }),
+        unusual: z.boolean().meta({ description: 'Typicality below the calculator’s threshold.' }),
+      }),
+    ),
+  })
+  .meta({ id: 'BatchAnswer' });
 
 export const scopeList = z.array(z.enum(API_KEY_SCOPES));

@@ -75,6 +75,16 @@ export const keyRows: KeyMatrixRow[] = [
     body: (w) => ({ versionId: w.versionId }),
     expect: keyed(200),
   },
+  {
+    file: 'app/api/v1/calculators/[id]/scores/route.ts',
+    method: 'POST',
+    scope: 'score',
+    url: (w) => `/api/v1/calculators/${w.embedId}/scores`,
+    params: (w) => ({ id: String(w.embedId) }),
+    body: () => ({ rows: [[24.5, 130, 420]] }),
+    expect: keyed(200),
+    note: "B's key cannot score A's calculator",
+  },
   { file: 'app/api/v1/usage/route.ts', method: 'GET', scope: 'read', url: () => '/api/v1/usage', expect: keyed(200, 200), note: "B's key reads B's usage" },
 ];
 
