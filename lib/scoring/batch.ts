@@ -232,7 +232,7 @@ export function scoreBatch(version: BatchVersion, rows: BatchRows, unusualBelow:
 }
 
 /** Rows per block of output text. */
-const BLOCK_ROWS = 2000;
+const BLOCK_ROWS = 10_000;
 
 /**
  * A share (0..1) to 6 decimals, trailing zeros dropped: "0.25", "0.000013", "1". Written
