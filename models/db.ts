@@ -1,7 +1,7 @@
 import { AsyncLocalStorage } from 'node:async_hooks';
 import path from 'node:path';
 import fs from 'node:fs';
-import { Sequelize, Transaction } from 'sequelize';
+import { Op, QueryTypes, Sequelize, Transaction } from 'sequelize';
 
 /**
  * The one database connection module: SQLite (the default) or PostgreSQL.
@@ -277,6 +277,26 @@ export function insideWriteTurn(): boolean {
 export function resetWriteLockStats(sequelize = getSequelize()): void {
   const queue = queues.get(sequelize);
   if (queue) queue.stats = emptyStats();
+}
+
+/**
+ * Count-then-insert checks (plan limits, numbers within a workspace) hold under
+ * concurrency when the writers of one workspace take turns. On SQLite they already do
+ * (the write turn above, and SQLite's one writer), so this is a no-op there. On
+ * PostgreSQL, transactions of this and other instances run side by side under READ
+ * COMMITTED and would all count the same rows: the first statement of such a
+ * transaction locks the workspace's row until it commits. FOR NO KEY UPDATE, so inserts
+ * elsewhere that merely reference the workspace (foreign keys take KEY SHARE) do not wait.
+ */
+export async function lockWorkspace(workspaceId: number, transaction?: Transaction | null): Promise<void> {
+  const sequelize = (transaction as unknown as { sequelize?: Sequelize } | null | undefined)?.sequelize;
+  if (!transaction || !sequelize || sequelize.getDialect() !== 'postgres') return;
+  await sequelize.query('SELECT id FROM workspaces WHERE id = ? FOR NO KEY UPDATE', { replacements: [workspaceId], transaction, type: QueryTypes.SELECT });
+}
+
+/** The case-insensitive LIKE: SQLite's LIKE already ignores ASCII case, PostgreSQL's needs ILIKE. */
+export function likeAnyCase(sequelize = getSequelize()): typeof Op.like | typeof Op.iLike {
+  return sequelize.getDialect() === 'postgres' ? Op.iLike : Op.like;
 }
 
 const globalCache = globalThis as unknown as { __partwiseSequelize?: Map<string, Sequelize> };
