@@ -96,6 +96,9 @@ function createPostgres(url: string): Sequelize {
       acquire: Number(process.env.DB_POOL_ACQUIRE_MS ?? 30_000),
     },
     retry: { max: 1 },
+    // A writer waiting for a row lock gives up after the same wait as SQLite's busy timeout
+    // (55P03, read as busy → 503 by AppError.from) instead of queueing without end.
+    dialectOptions: { lock_timeout: BUSY_TIMEOUT_MS, application_name: 'partwise' },
   });
   // COUNT(*) and SUM() of integers come back as int8, which the driver leaves as a string
   // (it could exceed 2^53); every count here is far below that, and SQLite answers numbers.
