@@ -12,7 +12,7 @@ const alias = {
 
 /**
  * Three levels: unit (lib, no I/O beyond temp files), integration (route handlers
- * against a real SQLite file and the local fakes), browser (Chromium against the
+ * against a real SQLite file and the local fakes; integration-pg: the same on PostgreSQL), browser (Chromium against the
  * built app that scripts/test.ts starts); beside them, system tests that start, kill
  * and restart app server processes of their own (on the same build).
  */
@@ -30,7 +30,31 @@ export default defineConfig({
         test: {
           name: 'integration',
           include: ['tests/integration/**/*.test.ts'],
+          // PostgreSQL's row locks; SQLite's file lock has locked-database.test.ts.
+          exclude: ['tests/integration/foundation/locked-row.test.ts'],
           environment: 'node',
+          setupFiles: ['tests/setup/integration-db.ts'],
+          testTimeout: 60_000,
+          hookTimeout: 60_000,
+        },
+      },
+      {
+        resolve: { alias },
+        test: {
+          // The same route-handler tests on PostgreSQL: each file gets a database of its own,
+          // copied from a template migrated once (tests/setup/postgres-global.ts).
+          name: 'integration-pg',
+          include: ['tests/integration/**/*.test.ts'],
+          exclude: [
+            // SQLite's own machinery, which PostgreSQL does not have: the online backup and
+            // restore of the database file (on PostgreSQL db:backup defers to pg_dump), and a
+            // second sqlite3 handle holding the file's write lock (PostgreSQL locks rows).
+            'tests/integration/foundation/backup.test.ts',
+            'tests/integration/foundation/locked-database.test.ts',
+          ],
+          environment: 'node',
+          env: { PARTWISE_TEST_DIALECT: 'postgres' },
+          globalSetup: ['tests/setup/postgres-global.ts'],
           setupFiles: ['tests/setup/integration-db.ts'],
           testTimeout: 60_000,
           hookTimeout: 60_000,

@@ -70,6 +70,8 @@ export class AppError extends Error {
 function isDatabaseBusy(error: unknown): boolean {
   for (let e = error as { message?: string; code?: string; parent?: unknown; original?: unknown } | undefined, depth = 0; e && depth < 4; depth++) {
     if (e.code === 'SQLITE_BUSY' || e.code === 'SQLITE_LOCKED' || /SQLITE_BUSY|database is locked/i.test(String(e.message ?? ''))) return true;
+    // PostgreSQL: a lock wait past lock_timeout, a deadlock, a serialization failure.
+    if (e.code === '55P03' || e.code === '40P01' || e.code === '40001') return true;
     e = (e.parent ?? e.original) as typeof e;
   }
   return false;

@@ -31,5 +31,6 @@ function describe(e: unknown): string {
   const message = String((e as Error)?.message ?? e);
   if (/SQLITE_CANTOPEN|unable to open/i.test(message)) return 'database file cannot be opened';
   if (/SQLITE_BUSY|locked/i.test(message)) return 'database is busy';
+  if (/ECONNREFUSED|ENOTFOUND|ETIMEDOUT|EHOSTUNREACH|ConnectionRefused|HostNotFound|timed out|does not exist|authentication failed/i.test(message)) return 'database server cannot be reached';
   return 'database query failed';
 }

@@ -117,7 +117,7 @@ async function writeBatch(batch: PendingCount[]): Promise<void> {
   await sequelize.query(
     `INSERT INTO usage_counters (embed_id, workspace_id, granularity, period, count, created_at, updated_at)
      VALUES ${rows}
-     ON CONFLICT (embed_id, granularity, period) DO UPDATE SET count = count + excluded.count, updated_at = excluded.updated_at`,
+     ON CONFLICT (embed_id, granularity, period) DO UPDATE SET count = usage_counters.count + excluded.count, updated_at = excluded.updated_at`,
     { replacements, type: QueryTypes.INSERT },
   );
 }

@@ -1,6 +1,6 @@
 import fs from 'node:fs';
 import path from 'node:path';
-import { openSequelize, databasePath, UnsupportedDatabaseUrl } from '@/models/db';
+import { openSequelize, databasePath, describeDatabase, UnsupportedDatabaseUrl } from '@/models/db';
 import { createMigrator } from '@/lib/db/migrator';
 import { buildIsStale } from './lib/build-state';
 import { spawnAppServer } from './lib/app-process';
@@ -32,9 +32,9 @@ async function main() {
     const applied = await createMigrator(sequelize).up();
     const pending = await createMigrator(sequelize).pending();
     if (pending.length) throw new Error(`still pending: ${pending.map((m) => m.name).join(', ')}`);
-    console.log(`[partwise] database ${file}: ${applied.length} migration(s) applied, schema up to date.`);
+    console.log(`[partwise] database ${describeDatabase(file)}: ${applied.length} migration(s) applied, schema up to date.`);
   } catch (e) {
-    console.error(`[partwise] Refusing to start: the database at ${file} could not be migrated (${(e as Error).message}).`);
+    console.error(`[partwise] Refusing to start: the database at ${describeDatabase(file)} could not be migrated (${(e as Error).message}).`);
     console.error('[partwise] Fix the cause, or run `npm run db:status` to see which migration is stuck.');
     process.exit(1);
   } finally {

@@ -4,6 +4,7 @@ import { spawn } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
 import { buildIsStale } from './lib/build-state';
 import { ensureChromium } from './lib/ensure-chromium';
+import { ensurePostgresBinaries, startPostgres, testPostgresPort, type RunningPostgres } from './lib/ensure-postgres';
 import { spawnAppServer } from './lib/app-process';
 import { run, waitForHttp } from './lib/run';
 import { startServices, stopServices, type RunningService } from './services';
@@ -11,8 +12,9 @@ import { startServices, stopServices, type RunningService } from './services';
 /**
  * `npm test`: every level in one run. Builds the app when sources changed, starts a
  * test stack (fresh migrated and seeded SQLite file, the local fakes, the built app
- * on a spare port), runs vitest's unit, integration and browser projects against it,
- * and stops everything. Extra arguments go to vitest (e.g. `npm test -- tests/unit`).
+ * on a spare port, and a throwaway PostgreSQL for the integration-pg project, which
+ * runs the integration tests a second time on PostgreSQL), runs vitest's projects
+ * against it, and stops everything. Extra arguments go to vitest (e.g. `npm test -- tests/unit`).
  */
 const PORT = process.env.PARTWISE_TEST_PORT ?? '3210';
 const ROOT = process.cwd();
@@ -20,6 +22,7 @@ const STACK_DIR = path.resolve(`.tmp/test-stack-${PORT}`);
 
 async function main() {
   ensureChromium();
+  ensurePostgresBinaries();
   if (buildIsStale()) {
     console.log('[test] building the app…');
     await run('npm', ['run', 'build']);
@@ -47,9 +50,15 @@ async function main() {
 
   let services: RunningService[] = [];
   let server: ReturnType<typeof spawnAppServer> | undefined;
+  let postgres: RunningPostgres | undefined;
   let exitCode = 1;
   try {
     Object.assign(process.env, env);
+    // Its own port and data directory (.tmp/pg-PORT); each integration-pg file gets a database on it.
+    if (!process.env.PARTWISE_TEST_PG_URL) {
+      postgres = startPostgres(testPostgresPort(PORT));
+      env.PARTWISE_TEST_PG_URL = postgres.url('');
+    }
     services = await startServices({ dataDir: STACK_DIR, appUrl });
     for (const s of services) Object.assign(env, s.env);
 
@@ -77,6 +86,7 @@ async function main() {
       } catch {}
     }
     await stopServices(services);
+    postgres?.stop();
   }
   process.exit(exitCode);
 }

@@ -5,6 +5,7 @@ import { enqueueMail } from '@/lib/mail';
 import { ANSWER_ALERT_THRESHOLDS, ANSWER_GRACE, DEFAULT_PLAN, PLAN_IDS, PLANS, getPlan, type Plan } from '@/lib/plans';
 import { monthPeriod, workspaceMonthlyAnswers } from '@/lib/usage';
 import { Embed, Membership, Subscription, User, Workspace, sequelize } from '@/models';
+import { lockWorkspace } from '@/models/db';
 
 /**
  * Limit checks that other features call before they do something a plan caps:
@@ -20,6 +21,8 @@ const PLAN_IN_FORCE = new Set<string>(PLAN_IN_FORCE_STATUSES);
 
 /** The plan whose limits apply to a workspace right now. */
 export async function workspacePlan(workspaceId: number, transaction?: Transaction): Promise<Plan> {
+  // Read inside a write transaction, the plan comes with the workspace's turn (PostgreSQL; see lockWorkspace).
+  await lockWorkspace(workspaceId, transaction);
   const sub = await Subscription.findOne({ where: { workspaceId }, attributes: ['plan', 'status'], transaction });
   if (!sub || !PLAN_IN_FORCE.has(sub.status)) return PLANS[DEFAULT_PLAN];
   return getPlan(sub.plan);

@@ -1,7 +1,23 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import sqlite3 from 'sqlite3';
-import { BUSY_TIMEOUT_MS } from '@/models/db';
+import { BUSY_TIMEOUT_MS, describeDatabase } from '@/models/db';
+
+/**
+ * On PostgreSQL, backups are the server's business: pg_dump reads a consistent snapshot
+ * while the app runs, pg_restore loads it, and both know roles, large tables and
+ * compression better than a copy made here would. db:backup and db:restore print the
+ * command to run (without the password: pg_dump reads PGPASSWORD or ~/.pgpass).
+ */
+const shellQuote = (s: string) => (/^[\w@%+=:,./-]+$/.test(s) ? s : `'${s.replace(/'/g, `'\\''`)}'`);
+
+export function pgDumpCommand(url: string, destPath: string): string {
+  return ['pg_dump', '--format=custom', `--file=${shellQuote(destPath)}`, shellQuote(describeDatabase(url))].join(' ');
+}
+
+export function pgRestoreCommand(url: string, sourcePath: string): string {
+  return ['pg_restore', '--clean', '--if-exists', '--no-owner', `--dbname=${shellQuote(describeDatabase(url))}`, shellQuote(sourcePath)].join(' ');
+}
 
 /**
  * Online backup and restore of the SQLite file, safe while the server runs:

@@ -50,7 +50,8 @@ export async function migrationState(sequelize: Sequelize, dir = MIGRATIONS_DIR)
     const [rows] = await sequelize.query('SELECT name FROM schema_migrations ORDER BY name');
     applied = (rows as { name: string }[]).map((r) => r.name);
   } catch (e) {
-    if (!/no such table/i.test(String((e as Error).message))) throw e;
+    // SQLite says "no such table", PostgreSQL 'relation "schema_migrations" does not exist'.
+    if (!/no such table|relation "schema_migrations" does not exist/i.test(String((e as Error).message))) throw e;
   }
   const pending = files.filter((f) => !applied.includes(f));
   return { applied, pending, upToDate: pending.length === 0 };

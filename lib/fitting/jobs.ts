@@ -23,6 +23,7 @@ import { featureMatrix, findDataset } from '@/lib/datasets';
 import { isMixtureError } from '@/lib/mixture';
 import { fitQueueLimit, type Plan } from '@/lib/plans';
 import { Dataset, Fit, sequelize } from '@/models';
+import { lockWorkspace } from '@/models/db';
 import { componentRange, fitParamsSchema, type FitParams } from './params';
 import { rankOutcome, type ComputeInput, type StoredCandidate } from './compute';
 import { CONTROL_WORDS, PAUSE, STOP, type WorkerMessage, type WorkerProgress, type WorkerStart } from './protocol';
@@ -151,6 +152,7 @@ export async function startFit(workspaceId: number, userId: number | null, input
   const limit = fitQueueLimit(plan.id);
   // Write transactions of one process already take turns (models/db.ts), so a burst of creations cannot starve the one holding the lock.
   const fit = await sequelize.transaction(async (transaction) => {
+    await lockWorkspace(workspaceId, transaction);
     const open = await Fit.count({ where: { workspaceId, status: ['queued', 'running'] }, transaction });
     if (open >= limit) throw queueCapError(plan, open, limit);
     return Fit.create({ workspaceId, datasetId: dataset.id, createdById: userId, status: 'queued', params: stored as unknown as Record<string, unknown>, progress: progress as unknown as Record<string, unknown> }, { transaction });

@@ -1,5 +1,6 @@
 import { Op, type WhereOptions } from 'sequelize';
 import { AuditEvent, Workspace } from '@/models';
+import { likeAnyCase } from '@/models/db';
 import { auditRow, type AuditRow } from './detail';
 import type { AuditQuery } from './schemas';
 
@@ -25,7 +26,7 @@ async function workspaceIdsFor(term: string): Promise<number[]> {
   if (/^\d+$/.test(term)) return [Number(term)];
   const like = `%${likeSafe(term.toLowerCase())}%`;
   const rows = await Workspace.findAll({
-    where: { [Op.or]: [{ name: { [Op.like]: like } }, { slug: { [Op.like]: like } }] },
+    where: { [Op.or]: [{ name: { [likeAnyCase()]: like } }, { slug: { [likeAnyCase()]: like } }] },
     attributes: ['id'],
     limit: 500,
   });
@@ -35,9 +36,9 @@ async function workspaceIdsFor(term: string): Promise<number[]> {
 export async function searchAudit(query: AuditQuery): Promise<AuditPage> {
   const and: WhereOptions<AuditEvent>[] = [];
   if (query.action) {
-    and.push(query.action.endsWith('.') || query.action.endsWith('*') ? { action: { [Op.like]: `${likeSafe(query.action.replace(/\*$/, ''))}%` } } : { action: query.action });
+    and.push(query.action.endsWith('.') || query.action.endsWith('*') ? { action: { [likeAnyCase()]: `${likeSafe(query.action.replace(/\*$/, ''))}%` } } : { action: query.action });
   }
-  if (query.actor) and.push({ actorEmail: { [Op.like]: `%${likeSafe(query.actor.toLowerCase())}%` } });
+  if (query.actor) and.push({ actorEmail: { [likeAnyCase()]: `%${likeSafe(query.actor.toLowerCase())}%` } });
   if (query.workspace) and.push({ workspaceId: { [Op.in]: await workspaceIdsFor(query.workspace) } });
   if (query.from) and.push({ createdAt: { [Op.gte]: new Date(`${query.from}T00:00:00.000Z`) } });
   if (query.to) and.push({ createdAt: { [Op.lt]: new Date(Date.parse(`${query.to}T00:00:00.000Z`) + 86_400_000) } });

@@ -5,12 +5,19 @@ import { sequelize } from '@/models';
 
 /**
  * Fingerprint of database tables: row count and a SHA-256 over every row's columns in
- * rowid order. Two equal fingerprints mean nothing was inserted, changed or deleted.
+ * rowid order (SQLite) or first-column order (PostgreSQL, which has no rowid; every
+ * table's first column is its key). Two equal fingerprints mean nothing was inserted,
+ * changed or deleted.
  */
 export type Fingerprint = Record<string, { rows: number; sha256: string }>;
 
+const postgres = () => sequelize.getDialect() === 'postgres';
+
 export async function tableNames(): Promise<string[]> {
-  const rows = await sequelize.query<{ name: string }>("SELECT name FROM sqlite_master WHERE type = 'table' AND name NOT LIKE 'sqlite_%' AND name <> 'SequelizeMeta' ORDER BY name", { type: QueryTypes.SELECT });
+  const sql = postgres()
+    ? "SELECT table_name AS name FROM information_schema.tables WHERE table_schema = 'public' AND table_type = 'BASE TABLE' ORDER BY table_name"
+    : "SELECT name FROM sqlite_master WHERE type = 'table' AND name NOT LIKE 'sqlite_%' AND name <> 'SequelizeMeta' ORDER BY name";
+  const rows = await sequelize.query<{ name: string }>(sql, { type: QueryTypes.SELECT });
   return rows.map((r) => r.name);
 }
 
@@ -18,6 +25,8 @@ function cellText(v: unknown): string {
   if (v === null || v === undefined) return '\u0000null';
   if (Buffer.isBuffer(v)) return `\u0000blob:${createHash('sha256').update(v).digest('hex')}`;
   if (v instanceof Date) return v.toISOString();
+  // PostgreSQL hands JSON columns back parsed.
+  if (typeof v === 'object') return JSON.stringify(v);
   return String(v);
 }
 
@@ -26,7 +35,7 @@ export async function fingerprint(tables?: string[]): Promise<Fingerprint> {
   await flushUsage();
   const out: Fingerprint = {};
   for (const table of tables ?? (await tableNames())) {
-    const rows = await sequelize.query<Record<string, unknown>>(`SELECT * FROM "${table.replace(/"/g, '""')}" ORDER BY rowid`, { type: QueryTypes.SELECT });
+    const rows = await sequelize.query<Record<string, unknown>>(`SELECT * FROM "${table.replace(/"/g, '""')}" ORDER BY ${postgres() ? '1' : 'rowid'}`, { type: QueryTypes.SELECT });
     const hash = createHash('sha256');
     for (const row of rows) {
       for (const key of Object.keys(row).sort()) hash.update(`${key}=${cellText(row[key])}\u0001`);

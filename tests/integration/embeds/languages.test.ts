@@ -113,7 +113,7 @@ describe('the calculator page in the chosen language', () => {
     await embed.reload();
     expect(embed.language).toBe('fr');
     // The studio's trail words the change.
-    const trail = await AuditEvent.findOne({ where: { action: 'embed.settings', targetId: embed.id }, order: [['id', 'DESC']] });
+    const trail = await AuditEvent.findOne({ where: { action: 'embed.settings', targetId: String(embed.id) }, order: [['id', 'DESC']] });
     expect(detailSummary(trail!.detail as Record<string, unknown>)).toContain('calculator language');
   });
 });

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import * as m from '@/models';
 
-describe('models against a migrated SQLite file', () => {
+describe('models against a migrated database', () => {
   it('each model can be created and read back', async () => {
     const user = await m.User.create({ email: 'ana@example.test', name: 'Ana', passwordHash: 'x'.repeat(60) });
     const workspace = await m.Workspace.create({ name: 'Lab', slug: 'lab-1' });
@@ -36,6 +36,6 @@ describe('models against a migrated SQLite file', () => {
   it('enforces uniqueness and foreign keys in the database itself', async () => {
     await m.User.create({ email: 'dup@example.test', name: 'D', passwordHash: 'x' });
     await expect(m.User.create({ email: 'dup@example.test', name: 'D2', passwordHash: 'x' })).rejects.toThrow();
-    await expect(m.Membership.create({ userId: 999_999, workspaceId: 999_999, role: 'member' })).rejects.toThrow(/FOREIGN KEY/);
+    await expect(m.Membership.create({ userId: 999_999, workspaceId: 999_999, role: 'member' })).rejects.toThrow(/FOREIGN KEY|foreign key constraint/);
   });
 });

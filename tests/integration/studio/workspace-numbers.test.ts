@@ -3,9 +3,6 @@
  * Fit 1 whatever other workspaces did, numbers are taken with the insert, and the
  * migration numbered rows that existed before it.
  */
-import fs from 'node:fs';
-import os from 'node:os';
-import path from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { QueryTypes } from 'sequelize';
 import { POST as uploadRoute } from '@/app/api/datasets/route';
@@ -15,6 +12,7 @@ import { createMigrator } from '@/lib/db/migrator';
 import { openSequelize } from '@/models/db';
 import { Dataset, Fit, Membership, User, Workspace } from '@/models';
 import { makeRequest } from '../../helpers/auth';
+import { emptyDatabase } from '../../helpers/databases';
 import { csvForm, studioWorld } from './helpers';
 
 const none = { params: Promise.resolve({}) };
@@ -76,8 +74,7 @@ describe('numbers within a workspace', () => {
   });
 
   it('the migration numbers existing rows per workspace, in order of creation, and reverts', async () => {
-    const file = path.join(fs.mkdtempSync(path.join(os.tmpdir(), 'partwise-numbers-')), 'db.sqlite');
-    const db = openSequelize(file);
+    const db = openSequelize(await emptyDatabase());
     try {
       const migrator = createMigrator(db);
       await migrator.up({ to: '20261202000006-support-indexes.ts' });
@@ -85,8 +82,9 @@ describe('numbers within a workspace', () => {
       await db.query(`INSERT INTO workspaces (id, name, slug, created_at, updated_at) VALUES (1, 'A', 'a', '${now}', '${now}'), (2, 'B', 'b', '${now}', '${now}')`);
       // Interleaved ids across two workspaces, as a shared sequence leaves them.
       for (const [id, ws] of [[1, 1], [2, 2], [3, 1], [4, 2], [5, 2]]) {
-        await db.query(`INSERT INTO datasets (id, workspace_id, name, original_filename, original_csv, columns, cells, row_count, created_at, updated_at) VALUES (${id}, ${ws}, 'd', 'd.csv', x'00', '[]', '[]', 0, '${now}', '${now}')`);
-        await db.query(`INSERT INTO fits (id, workspace_id, dataset_id, status, params, cancel_requested, created_at, updated_at) VALUES (${id}, ${ws}, ${id}, 'failed', '{}', 0, '${now}', '${now}')`);
+        // A one-byte blob and false as bound values: their literals differ between SQLite and PostgreSQL.
+        await db.query(`INSERT INTO datasets (id, workspace_id, name, original_filename, original_csv, columns, cells, row_count, created_at, updated_at) VALUES (${id}, ${ws}, 'd', 'd.csv', ?, '[]', '[]', 0, '${now}', '${now}')`, { replacements: [Buffer.from([0])] });
+        await db.query(`INSERT INTO fits (id, workspace_id, dataset_id, status, params, cancel_requested, created_at, updated_at) VALUES (${id}, ${ws}, ${id}, 'failed', '{}', ?, '${now}', '${now}')`, { replacements: [false] });
       }
       await migrator.up();
       for (const table of ['datasets', 'fits']) {
@@ -94,8 +92,9 @@ describe('numbers within a workspace', () => {
         expect(rows.map((r) => r.number)).toEqual([1, 1, 2, 2, 3]);
       }
       await migrator.down({ to: '20261202100008-workspace-numbers.ts' });
-      const columns = await db.query<{ name: string }>(`PRAGMA table_info(fits)`, { type: QueryTypes.SELECT });
-      expect(columns.map((c) => c.name)).not.toContain('number');
+      const columns = Object.keys(await db.getQueryInterface().describeTable('fits'));
+      expect(columns).toContain('dataset_id');
+      expect(columns).not.toContain('number');
     } finally {
       await db.close();
     }
