@@ -90,9 +90,9 @@ export async function seedDemoInsight(ctx: { workspace: Workspace }, now = new D
   for (let i = 0; i < rows.length; i += 2000) {
     const part = rows.slice(i, i + 2000);
     await sequelize.query(
-      `INSERT INTO insight_counts (embed_id, version_id, day, kind, field, bin, count, demo) VALUES ${part.map(() => '(?, ?, ?, ?, ?, ?, ?, 1)').join(', ')}
-       ON CONFLICT (embed_id, version_id, day, kind, field, bin) DO UPDATE SET count = count + excluded.count, demo = 1`,
-      { replacements: part.flatMap((r) => [embed.id, version.id, r.day, r.kind, r.field, r.bin, r.count]), type: QueryTypes.INSERT },
+      `INSERT INTO insight_counts (embed_id, version_id, day, kind, field, bin, count, demo) VALUES ${part.map(() => '(?, ?, ?, ?, ?, ?, ?, ?)').join(', ')}
+       ON CONFLICT (embed_id, version_id, day, kind, field, bin) DO UPDATE SET count = insight_counts.count + excluded.count, demo = excluded.demo`,
+      { replacements: part.flatMap((r) => [embed.id, version.id, r.day, r.kind, r.field, r.bin, r.count, true]), type: QueryTypes.INSERT },
     );
   }
   console.log(`[partwise] demo insight: ${DEMO_INSIGHT_DAYS} days of invented aggregates for "${embed.title}" (marked demo).`);

@@ -259,7 +259,7 @@ async function writeRows(rows: InsightCountRow[]): Promise<void> {
   const replacements = rows.flatMap((r) => [r.embedId, r.versionId, r.day, r.kind, r.field, r.bin, r.count]);
   await sequelize.query(
     `INSERT INTO insight_counts (embed_id, version_id, day, kind, field, bin, count) VALUES ${values}
-     ON CONFLICT (embed_id, version_id, day, kind, field, bin) DO UPDATE SET count = count + excluded.count`,
+     ON CONFLICT (embed_id, version_id, day, kind, field, bin) DO UPDATE SET count = insight_counts.count + excluded.count`,
     { replacements, type: QueryTypes.INSERT },
   );
 }

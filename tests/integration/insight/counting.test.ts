@@ -84,7 +84,7 @@ describe('answer insight counting', () => {
       }
     }
     // One row per counter key, whatever the number of flushes.
-    const [dupes] = await sequelize.query('SELECT COUNT(*) AS n FROM (SELECT 1 FROM insight_counts GROUP BY embed_id, version_id, day, kind, field, bin HAVING COUNT(*) > 1)');
+    const [dupes] = await sequelize.query('SELECT COUNT(*) AS n FROM (SELECT 1 FROM insight_counts GROUP BY embed_id, version_id, day, kind, field, bin HAVING COUNT(*) > 1) AS dup');
     expect((dupes as { n: number }[])[0].n).toBe(0);
   });
 

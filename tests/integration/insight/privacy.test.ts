@@ -6,7 +6,8 @@ import { answer, insightCalculator, liftScoringLimits } from './helpers';
 
 /** Every cell of every table (blobs read as text) in which a needle turns up, as "table.column". */
 async function findAnywhere(texts: string[], numbers: number[], addresses: string[]): Promise<string[]> {
-  const tables = await sequelize.query<{ name: string }>("SELECT name FROM sqlite_master WHERE type = 'table'", { type: QueryTypes.SELECT });
+  // Every table the dialect knows (SQLite or PostgreSQL), not only the models'.
+  const tables = ((await sequelize.getQueryInterface().showAllTables()) as (string | { tableName: string })[]).map((t) => ({ name: typeof t === 'string' ? t : t.tableName }));
   const found: string[] = [];
   const numberSet = new Set(numbers);
   for (const { name } of tables) {
@@ -18,7 +19,9 @@ async function findAnywhere(texts: string[], numbers: number[], addresses: strin
           if (numberSet.has(value) || numbers.some((n) => Math.abs(n - value) < 1e-9)) found.push(`${name}.${column} = ${value}`);
           continue;
         }
-        const text = Buffer.isBuffer(value) ? value.toString('utf8') : String(value);
+        // JSON columns come back parsed on PostgreSQL, and numeric ones may come back as text.
+        const text = Buffer.isBuffer(value) ? value.toString('utf8') : typeof value === 'object' && !(value instanceof Date) ? JSON.stringify(value) : String(value);
+        if (/^-?\d+(\.\d+)?$/.test(text) && numbers.some((n) => Math.abs(n - Number(text)) < 1e-9)) found.push(`${name}.${column} = ${text}`);
         for (const needle of [...texts, ...addresses]) if (text.includes(needle)) found.push(`${name}.${column} ∋ ${needle}`);
       }
     }
