@@ -1,5 +1,6 @@
 import type { Sequelize } from 'sequelize';
 import { migrationState } from '@/lib/db/migrator';
+import { getSequelize } from '@/models/db';
 
 export interface HealthReport {
   ok: boolean;
@@ -8,7 +9,7 @@ export interface HealthReport {
 }
 
 /** Reachable database and no pending migration: the two things start-up also insists on. */
-export async function checkHealth(sequelize: Sequelize): Promise<HealthReport> {
+export async function checkHealth(sequelize: Sequelize = getSequelize()): Promise<HealthReport> {
   try {
     await sequelize.query('SELECT 1');
   } catch (e) {

@@ -1,7 +1,7 @@
 import Link from 'next/link';
 import { Logo } from '@/components/brand/Logo';
 import type { WorkspaceChoice } from '@/lib/accounts/workspaces';
-import type { WorkspaceRole } from '@/models';
+import type { WorkspaceRole } from '@/lib/auth/guard';
 import { StudioNav, type NavItem } from './StudioNav';
 import { UserMenu } from './UserMenu';
 import { WorkspaceSwitcher } from './WorkspaceSwitcher';

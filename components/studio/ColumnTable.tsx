@@ -1,4 +1,4 @@
-import type { DatasetColumn } from '@/models/Dataset';
+import type { DatasetColumn } from '@/lib/datasets';
 import { formatCount as count, formatNumber as num } from '@/lib/format';
 
 /** Per-column facts found at upload. */

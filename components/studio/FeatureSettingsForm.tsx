@@ -3,7 +3,7 @@
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import { useForm } from 'react-hook-form';
-import type { DatasetColumn } from '@/models/Dataset';
+import type { DatasetColumn } from '@/lib/datasets';
 import { formatNumber } from '@/lib/format';
 import { api, ApiError } from './client-api';
 import { fixFieldsNotice, parseTypedNumber, placeServerIssues } from './form-issues';

@@ -2,7 +2,7 @@
 
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
-import type { DatasetColumn } from '@/models/Dataset';
+import type { DatasetColumn } from '@/lib/datasets';
 import { api, ApiError } from './client-api';
 import { STRUCTURE_HELP } from './structures';
 import { fixFieldsNotice } from './form-issues';

@@ -3,7 +3,7 @@
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import { useForm } from 'react-hook-form';
-import type { ClusterLabel, FieldSetting } from '@/models/MixtureModel';
+import type { ClusterLabel, FieldSetting } from '@/lib/fitting/models';
 import { CLUSTER_PALETTE } from '@/lib/fitting/palette';
 import { formatNumber, formatPercent } from '@/lib/format';
 import { api, ApiError } from './client-api';

@@ -24,6 +24,8 @@ export interface WorkspaceActor extends Actor {
   role: WorkspaceRole;
 }
 
+export type { WorkspaceRole };
+
 const RANK: Record<WorkspaceRole, number> = { member: 1, owner: 2 };
 
 /** The signed-in user behind a request, or null for a visitor. */

@@ -10,6 +10,9 @@ import { AppError } from '@/lib/errors';
 import { parseWith } from '@/lib/http/handler';
 import { Dataset, Fit, MixtureModel, sequelize } from '@/models';
 import type { DatasetColumn } from '@/models/Dataset';
+
+/** A dataset column's description, for pages and components (which take their types from lib). */
+export type { DatasetColumn };
 import { decodeCsvBytes, parseCsvText } from './parse';
 import { assertUploadBytes, assertUploadRows } from './limits';
 

@@ -10,6 +10,9 @@ import { parseWith } from '@/lib/http/handler';
 import { MixtureError, parseModelJson, toModelJson } from '@/lib/mixture';
 import { Dataset, MixtureModel } from '@/models';
 import type { ClusterLabel, FieldSetting } from '@/models';
+
+/** A model's cluster names and calculator fields, for pages and components (which take their types from lib). */
+export type { ClusterLabel, FieldSetting };
 import { findFit } from './jobs';
 import { clusterColor, HEX_COLOR } from './palette';
 import { fitResult } from './views';

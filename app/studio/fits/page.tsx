@@ -1,7 +1,7 @@
 import Link from 'next/link';
 import type { Metadata } from 'next';
 import { pageWorkspace } from '@/lib/auth/page';
-import { Dataset, Fit } from '@/models';
+import { fitsPage } from '@/lib/fitting/studio-queries';
 import { formatDateTime } from '@/lib/format';
 import { FitStatusPill } from '@/components/studio/FitStatusPill';
 import { Section, StudioPage } from '@/components/studio/StudioPage';
@@ -11,8 +11,7 @@ export const dynamic = 'force-dynamic';
 
 export default async function FitsPage() {
   const actor = await pageWorkspace('member', '/studio/fits');
-  const fits = await Fit.findAll({ where: { workspaceId: actor.workspace.id }, order: [['id', 'DESC']], limit: 200, attributes: ['id', 'number', 'datasetId', 'status', 'params', 'progress', 'error', 'createdAt'] });
-  const datasets = new Map((await Dataset.findAll({ where: { workspaceId: actor.workspace.id }, attributes: ['id', 'name'] })).map((d) => [d.id, d.name]));
+  const { fits, datasetNames: datasets } = await fitsPage(actor.workspace.id);
   return (
     <StudioPage title="Fits" lead="Every mixture fit of this workspace, newest first. Start a new one from a dataset.">
       <Section title="All fits" id="fits">

@@ -6,7 +6,7 @@ import { AppError } from '@/lib/errors';
 import { parseDecimalId } from '@/lib/http/ids';
 import { findDataset } from '@/lib/datasets';
 import { FIT_DEFAULTS, MAX_COMPONENTS } from '@/lib/fitting/params';
-import { Fit } from '@/models';
+import { fitsOfDataset } from '@/lib/fitting/studio-queries';
 import { ColumnTable, PreviewTable } from '@/components/studio/ColumnTable';
 import { DeleteDatasetButton } from '@/components/studio/DeleteDatasetButton';
 import { FeatureSettingsForm } from '@/components/studio/FeatureSettingsForm';
@@ -27,7 +27,7 @@ export default async function DatasetPage({ params }: { params: Promise<{ id: st
     if (e instanceof AppError && e.code === 'not_found') notFound();
     throw e;
   });
-  const fits = await Fit.findAll({ where: { workspaceId: actor.workspace.id, datasetId }, order: [['id', 'DESC']], attributes: ['id', 'number', 'status', 'params', 'createdAt', 'error'] });
+  const fits = await fitsOfDataset(actor.workspace.id, datasetId);
   const numeric = dataset.columns.filter((c) => c.kind === 'numeric');
   const complete = dataset.cells.filter((r) => dataset.columns.every((c, j) => c.kind !== 'numeric' || typeof r[j] === 'number')).length;
   return (

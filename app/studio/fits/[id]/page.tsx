@@ -6,17 +6,18 @@ import { parseDecimalId } from '@/lib/http/ids';
 import { findFit } from '@/lib/fitting/jobs';
 import { queuePositionOf } from '@/lib/fitting/queue';
 import { fitView } from '@/lib/fitting/views';
-import { Dataset, Fit, MixtureModel } from '@/models';
+import { fitNumber, fitPageContext } from '@/lib/fitting/studio-queries';
 import { formatCount } from '@/lib/format';
 import { FitWorkbench } from '@/components/studio/FitWorkbench';
 import { StudioPage } from '@/components/studio/StudioPage';
 
 /** The tab title names the fit by its number in the workspace. */
 export async function generateMetadata({ params }: { params: Promise<{ id: string }> }): Promise<Metadata> {
-  const fitId = Number((await params).id);
-  const actor = await pageWorkspace('member', `/studio/fits/${fitId}`).catch(() => null);
-  const fit = actor && Number.isInteger(fitId) && fitId > 0 ? await Fit.findOne({ where: { id: fitId, workspaceId: actor.workspace.id }, attributes: ['number'] }) : null;
-  return { title: fit ? `Fit ${fit.number}` : 'Fit' };
+  const { id } = await params;
+  const fitId = parseDecimalId(id);
+  const actor = fitId === null ? null : await pageWorkspace('member', `/studio/fits/${id}`).catch(() => null);
+  const number = actor && fitId !== null ? await fitNumber(actor.workspace.id, fitId) : null;
+  return { title: number !== null ? `Fit ${number}` : 'Fit' };
 }
 export const dynamic = 'force-dynamic';
 
@@ -29,13 +30,9 @@ export default async function FitPage({ params }: { params: Promise<{ id: string
     if (e instanceof AppError && e.code === 'not_found') notFound();
     throw e;
   });
-  const dataset = await Dataset.findOne({ where: { id: fit.datasetId, workspaceId: actor.workspace.id }, attributes: ['id', 'name'] });
+  const { dataset, kept } = await fitPageContext(actor.workspace.id, fit);
   const p = fit.params as { features?: string[]; minComponents?: number; maxComponents?: number; covariances?: string[]; restarts?: number; seed?: number; standardize?: boolean; rows?: number; dropped?: number };
-  // Models already kept from this fit, so the page says so instead of inviting a duplicate.
-  const kept = (await MixtureModel.findAll({ where: { workspaceId: actor.workspace.id, fitId: fit.id }, attributes: ['id', 'name', 'model'], order: [['id', 'ASC']] })).map((m) => {
-    const engine = m.model as { weights?: number[]; structure?: string };
-    return { id: m.id, name: m.name, components: engine.weights?.length ?? 0, covariance: engine.structure ?? '' };
-  });
+  // `kept`: models already kept from this fit, so the page says so instead of inviting a duplicate.
   const view = JSON.parse(JSON.stringify(fitView(fit, await queuePositionOf(fit))));
   return (
     <StudioPage

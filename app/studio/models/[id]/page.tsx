@@ -5,7 +5,7 @@ import { pageWorkspace } from '@/lib/auth/page';
 import { AppError } from '@/lib/errors';
 import { parseDecimalId } from '@/lib/http/ids';
 import { findModel } from '@/lib/fitting/models';
-import { Dataset, Embed, Fit } from '@/models';
+import { modelPageContext } from '@/lib/fitting/studio-queries';
 import { ModelEditor } from '@/components/studio/ModelEditor';
 import { ReviewPanel } from '@/components/studio/ReviewPanel';
 import { Section, StudioPage } from '@/components/studio/StudioPage';
@@ -34,9 +34,7 @@ export default async function ModelPage({ params }: { params: Promise<{ id: stri
     throw e;
   });
   const engine = model.model as unknown as EngineModelShape;
-  const dataset = model.datasetId ? await Dataset.findOne({ where: { id: model.datasetId, workspaceId: actor.workspace.id }, attributes: ['id', 'name'] }) : null;
-  const calculators = await Embed.findAll({ where: { workspaceId: actor.workspace.id, mixtureModelId: model.id }, attributes: ['id', 'title', 'status'], order: [['id', 'ASC']] });
-  const fit = model.fitId ? await Fit.findOne({ where: { id: model.fitId, workspaceId: actor.workspace.id }, attributes: ['id', 'number'] }) : null;
+  const { dataset, calculators, fit } = await modelPageContext(actor.workspace.id, model);
   const live = calculators.filter((c) => c.status !== 'retired');
   const rank = engine.ranking?.find((r) => r.components === engine.weights.length && r.covariance === engine.structure)?.rank;
   return (

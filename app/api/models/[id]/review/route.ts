@@ -4,10 +4,10 @@ import { AppError } from '@/lib/errors';
 import { findFit } from '@/lib/fitting/jobs';
 import { findModel } from '@/lib/fitting/models';
 import { reviewModel } from '@/lib/fitting/review';
+import { datasetOfModel } from '@/lib/fitting/studio-queries';
 import { fitResult } from '@/lib/fitting/views';
 import { idParam, parseWith, readParams, route } from '@/lib/http/handler';
 import { decimalIndex } from '@/lib/http/ids';
-import { Dataset } from '@/models';
 
 const query = z.object({ x: decimalIndex().optional(), y: decimalIndex().optional() });
 
@@ -17,7 +17,7 @@ export const GET = route<{ params: Promise<{ id: string }> }>(async (request, { 
   const { id } = await readParams(params, idParam);
   const q = parseWith(query, Object.fromEntries(new URL(request.url).searchParams), 'query');
   const model = await findModel(actor.workspace.id, id);
-  const dataset = model.datasetId ? await Dataset.findOne({ where: { id: model.datasetId, workspaceId: actor.workspace.id } }) : null;
+  const dataset = await datasetOfModel(actor.workspace.id, model);
   if (!dataset) throw new AppError('gone', 'The dataset this model was fitted to has been deleted, so its rows cannot be shown.');
   let trace: number[] = [];
   if (model.fitId) {
