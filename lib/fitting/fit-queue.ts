@@ -14,7 +14,8 @@
  */
 import PgBoss from 'pg-boss';
 import type { Transaction } from 'sequelize';
-import { databaseDialect, databasePath } from '@/models/db';
+import { databasePath } from '@/models/db';
+import { fitQueueMode, type FitQueueMode } from './queue-config';
 
 export const FIT_QUEUE = 'partwise-fit';
 /** Where pg-boss puts a fit job whose retry failed too. */
@@ -22,29 +23,7 @@ export const FIT_DEAD_QUEUE = 'partwise-fit-dead';
 export const FIT_QUEUE_SCHEMA = 'pgboss';
 export const WORKER_LOST_REASON = 'The worker running this fit stopped twice before it finished (once it was started again from its last checkpoint); start it again.';
 
-export type FitQueueMode = 'in-process' | 'pg-boss';
-
-export class FitQueueConfigError extends Error {
-  constructor(message: string) {
-    super(message);
-    this.name = 'FitQueueConfigError';
-  }
-}
-
-/**
- * Which runner takes fits. PARTWISE_FIT_QUEUE: unset, empty or `in-process` (the
- * default, also on PostgreSQL: one instance needs no worker process), or `pg-boss`
- * (needs a postgres:// DATABASE_URL). Anything else is refused with one clear line.
- */
-export function fitQueueMode(env: Record<string, string | undefined> = process.env): FitQueueMode {
-  const raw = (env.PARTWISE_FIT_QUEUE ?? '').trim().toLowerCase();
-  if (raw === '' || raw === 'in-process') return 'in-process';
-  if (raw !== 'pg-boss') throw new FitQueueConfigError(`PARTWISE_FIT_QUEUE is "${env.PARTWISE_FIT_QUEUE}", which Partwise does not know: leave it unset for the in-process runner, or set it to pg-boss (with a postgres:// DATABASE_URL).`);
-  if (databaseDialect(databasePath(env.DATABASE_URL)) !== 'postgres') {
-    throw new FitQueueConfigError('PARTWISE_FIT_QUEUE=pg-boss needs DATABASE_URL to be a postgres:// address (the queue lives in the same PostgreSQL); on SQLite leave PARTWISE_FIT_QUEUE unset.');
-  }
-  return 'pg-boss';
-}
+export { FitQueueConfigError, fitQueueMode, type FitQueueMode } from './queue-config';
 
 export const queueConfigured = () => fitQueueMode() === 'pg-boss';
 
