@@ -5,12 +5,15 @@
  * to the fit row, the row's cancel flag polled, a paused fit re-queued with a new job).
  * It needs only DATABASE_URL (and PARTWISE_FIT_QUEUE=pg-boss), so it can run anywhere.
  *
- * Order and fairness: pg-boss hands out jobs oldest first, and the fair rule of
- * schedule.ts is kept by the turns: a running fit gives its slot back (pauses and goes
- * to the back of the queue with a new job) once it has had its slice while another
- * workspace's fit waits (shouldYield over the queue snapshot of every runner), and in
- * any case after PARTWISE_FIT_TURN_MS. The plan's waiting limits are checked when the
- * fit is created (startFit), as without a queue.
+ * Order and fairness: a job fetched from pg-boss is a free slot; which fit gets it is
+ * decided by the fair rule of schedule.ts over the queue snapshot of every runner
+ * (pickNextFit), as in the in-process runner. When the rule names another waiting fit,
+ * the fetched job and that fit's waiting job swap the fit they carry (one transaction,
+ * the waiting one locked), so each job still names the fit it runs and a retry takes
+ * over the right one. A running fit gives its slot back (pauses, queued again with a
+ * new job) once it has had its slice while another workspace's fit waits (shouldYield),
+ * and in any case after PARTWISE_FIT_TURN_MS. The plan's waiting limits are checked
+ * when the fit is created (startFit), as without a queue.
  *
  * Restart safety: a job still active after its expiry (its worker was killed) is
  * retried once by pg-boss; the worker that fetches the retry takes the fit over from
@@ -20,9 +23,12 @@
  * still running after the grace period fails its job, so pg-boss retries it at once.
  */
 import type PgBoss from 'pg-boss';
-import { Fit } from '@/models';
+import { QueryTypes } from 'sequelize';
+import { Fit, sequelize } from '@/models';
+import { loadQueueSnapshot } from './queue';
+import { pickNextFit } from './schedule';
 import { drainRunner, finishFit, fitSlots, releaseSlot, runTurn, runnerId } from './jobs';
-import { FIT_DEAD_QUEUE, FIT_QUEUE, WORKER_LOST_REASON, fitBoss, type FitJobData } from './fit-queue';
+import { FIT_DEAD_QUEUE, FIT_QUEUE, FIT_QUEUE_SCHEMA, WORKER_LOST_REASON, fitBoss, type FitJobData } from './fit-queue';
 
 type FitJob = PgBoss.JobWithMetadata<FitJobData>;
 
@@ -33,18 +39,48 @@ export interface FitWorkerOptions {
 }
 
 export interface FitWorkerHandle {
-  /** Fit ids running now. */
-  active(): number[];
+  /** Ids of the jobs this worker holds now. */
+  active(): string[];
   /** Stop taking jobs, let running fits pause and hand back (or fail their job after graceMs), then resolve. */
   stop(graceMs?: number): Promise<void>;
 }
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
-/** What one fetched job does to its fit; returns how the turn was started (for logs and tests). */
-export async function runFitJob(job: Pick<FitJob, 'id' | 'data' | 'retryCount'>): Promise<'ran' | 'took-over' | 'skipped'> {
-  const id = Number(job.data?.fitId);
-  const row = Number.isInteger(id) ? await Fit.findByPk(id) : null;
+/**
+ * The fit a fresh job for `fitId` should run by the fair rule: that fit, or the one the rule
+ * picks, whose waiting job then carries `fitId` instead (so every fit keeps exactly one job).
+ */
+export async function fairFitFor(jobId: string, fitId: number): Promise<number> {
+  const pick = pickNextFit(await loadQueueSnapshot());
+  if (!pick || pick.id === fitId) return fitId;
+  return sequelize.transaction(async (transaction) => {
+    const [other] = await sequelize.query<{ id: string }>(
+      `SELECT id FROM ${FIT_QUEUE_SCHEMA}.job WHERE name = $1 AND state < 'active' AND (data->>'fitId')::int = $2 LIMIT 1 FOR UPDATE SKIP LOCKED`,
+      { bind: [FIT_QUEUE, pick.id], type: QueryTypes.SELECT, transaction },
+    );
+    // Its job is being taken by another worker right now: run our own fit.
+    if (!other) return fitId;
+    const carry = (job: string, fit: number) =>
+      sequelize.query(`UPDATE ${FIT_QUEUE_SCHEMA}.job SET data = jsonb_build_object('fitId', $1::int) WHERE name = $2 AND id = $3::uuid`, { bind: [fit, FIT_QUEUE, job], transaction });
+    await carry(other.id, fitId);
+    await carry(jobId, pick.id);
+    return pick.id;
+  });
+}
+
+/** What one fetched job does to its fit; returns how the turn was started and which fit (for logs and tests). */
+export async function runFitJob(job: Pick<FitJob, 'id' | 'data' | 'retryCount'>): Promise<{ how: 'ran' | 'took-over' | 'skipped'; fitId: number }> {
+  let id = Number(job.data?.fitId);
+  if (!Number.isInteger(id)) return { how: 'skipped', fitId: id };
+  // A first delivery goes to the fit the fair rule picks; a retry stays with the fit its lost worker had.
+  if (job.retryCount === 0) id = await fairFitFor(job.id, id);
+  const how = await runFit(id, job.retryCount);
+  return { how, fitId: id };
+}
+
+async function runFit(id: number, retryCount: number): Promise<'ran' | 'took-over' | 'skipped'> {
+  const row = await Fit.findByPk(id);
   if (!row) return 'skipped';
   const now = new Date();
   let how: 'ran' | 'took-over';
@@ -56,7 +92,7 @@ export async function runFitJob(job: Pick<FitJob, 'id' | 'data' | 'retryCount'>)
     const [claimed] = await Fit.update({ status: 'running', runnerId: runnerId(), lastTurnAt: now, startedAt: row.startedAt ?? now }, { where: { id, status: 'queued', cancelRequested: false } });
     if (claimed !== 1) return 'skipped';
     how = 'ran';
-  } else if (row.status === 'running' && job.retryCount > 0 && row.runnerId !== runnerId()) {
+  } else if (row.status === 'running' && retryCount > 0 && row.runnerId !== runnerId()) {
     // A retried job: the worker that had it is gone (or so slow that its job expired). Take the fit over,
     // so that worker's late writes (guarded by its runner id) can no longer land.
     const [taken] = await Fit.update({ runnerId: runnerId(), lastTurnAt: now }, { where: { id, status: 'running', runnerId: row.runnerId } });
@@ -88,7 +124,7 @@ export async function startFitWorker(opts: FitWorkerOptions = {}): Promise<FitWo
   const slots = Math.max(1, fitSlots()); // PARTWISE_FIT_SLOTS, as for the in-process runner
   const pollMs = opts.pollMs ?? (Number(process.env.PARTWISE_WORKER_POLL_MS) > 0 ? Number(process.env.PARTWISE_WORKER_POLL_MS) : 500);
   const log = opts.log ?? ((line: string) => console.log(`[partwise worker] ${line}`));
-  const running = new Map<number, { job: FitJob; done: Promise<void>; handedBack: boolean }>();
+  const running = new Map<string, { job: FitJob; done: Promise<void>; handedBack: boolean }>();
   let stopping = false;
   drainRunner(false);
 
@@ -105,19 +141,22 @@ export async function startFitWorker(opts: FitWorkerOptions = {}): Promise<FitWo
           const [job] = await boss.fetch<FitJobData>(FIT_QUEUE, { batchSize: 1, includeMetadata: true });
           if (job) {
             busy = true;
-            const fitId = Number(job.data?.fitId);
+            // Keyed by job: the fit it runs is known once the fair rule has chosen.
+            const key = job.id;
             const entry = { job, done: Promise.resolve(), handedBack: false };
-            running.set(fitId, entry);
+            running.set(key, entry);
             entry.done = (async () => {
+              let fitId = Number(job.data?.fitId);
               try {
-                const how = await runFitJob(job);
-                if (how !== 'skipped') log(`fit ${fitId}: turn ${how === 'took-over' ? 'taken over after a lost worker' : 'run'}`);
+                const turn = await runFitJob(job);
+                fitId = turn.fitId;
+                if (turn.how !== 'skipped') log(`fit ${fitId}: turn ${turn.how === 'took-over' ? 'taken over after a lost worker' : 'run'}`);
                 if (!entry.handedBack) await boss.complete(FIT_QUEUE, job.id);
               } catch (e) {
                 console.error('[partwise worker] fit', fitId, 'job error:', (e as Error).message);
               } finally {
                 releaseSlot(fitId);
-                running.delete(fitId);
+                running.delete(key);
               }
             })();
           }

@@ -53,6 +53,7 @@ describe.skipIf(!onPg)('fits through pg-boss', () => {
   let w: Awaited<ReturnType<typeof studioWorld>>;
   let small: number;
   let big: number;
+  let other: number;
   let worker: FitWorkerHandle | null = null;
 
   async function upload(userId: number, csv: string, name: string): Promise<number> {
@@ -100,6 +101,7 @@ describe.skipIf(!onPg)('fits through pg-boss', () => {
     w = await studioWorld('lab');
     small = await upload(w.member.id, ridesCsv(300), 'rides.csv');
     big = await upload(w.member.id, ridesCsv(3000), 'rides-season.csv');
+    other = await upload(w.outsider.id, ridesCsv(300), 'other-club.csv');
   });
   afterEach(async () => {
     await worker?.stop(5_000);
@@ -132,6 +134,28 @@ describe.skipIf(!onPg)('fits through pg-boss', () => {
     expect((row.result as any).candidates).toHaveLength(6);
     expect(row.runnerId).toMatch(new RegExp(`:${process.pid}:`));
     expect(await jobsOf(fit.id)).toEqual([{ name: FIT_QUEUE, state: 'completed', retry_count: 0 }]);
+  });
+
+  it('keeps the fair order across workspaces: the other workspace\'s fit starts second, not after all of the first\'s', async () => {
+    const a1 = await start({ ...TINY, datasetId: small, seed: 1 });
+    const a2 = await start({ ...TINY, datasetId: small, seed: 2 });
+    const a3 = await start({ ...TINY, datasetId: small, seed: 3 });
+    const res = await startRoute(await makeRequest('/api/fits', { method: 'POST', userId: w.outsider.id, json: { ...TINY, datasetId: other } }), none);
+    expect(res.status).toBe(202);
+    const b1 = ((await res.json()) as any).fit;
+    // The order the app shows (the rule of schedule.ts): B's one fit is not left behind A's three.
+    const positions = new Map<number, number>();
+    for (const f of [a1, a2, a3]) positions.set(f.id, (await poll(f.id)).queuePosition);
+    positions.set(b1.id, b1.queuePosition);
+    const order = [a1, a2, a3, b1].map((f) => f.id).sort((x, y) => positions.get(x)! - positions.get(y)!);
+    expect(order.indexOf(b1.id)).toBeLessThanOrEqual(1);
+    worker = await startFitWorker({ log: () => {} }); // one slot (PARTWISE_FIT_SLOTS=1)
+    for (const f of [a1, a2, a3]) expect((await waitFor(f.id, ended)).status).toBe('succeeded');
+    const rows = await Fit.findAll({ where: { id: [a1.id, a2.id, a3.id, b1.id] }, order: [['startedAt', 'ASC']] });
+    // The worker starts them in that order, not first come first served (B's came last).
+    expect(rows.map((r) => r.id)).toEqual(order);
+    // Every fit kept exactly one job, each completed.
+    for (const r of rows) expect((await jobsOf(r.id)).map((j) => j.state)).toEqual(['completed']);
   });
 
   it('stops a fit running in the worker when it is cancelled through the route', async () => {
