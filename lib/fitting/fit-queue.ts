@@ -124,6 +124,8 @@ export async function publishFitTurn(fitId: number, transaction?: Transaction): 
   await boss.send(FIT_QUEUE, data as unknown as object, db ? ({ db } as PgBoss.SendOptions) : {});
 }
 
+const HEALTH_TIMEOUT_MS = 3000;
+
 /**
  * For /api/health: null when no queue is configured; otherwise whether pg-boss answers
  * and how many fit turns wait or run.
@@ -136,12 +138,21 @@ export async function queueHealth(): Promise<{ ok: boolean; detail: string } | n
     return { ok: false, detail: (e as Error).message };
   }
   if (mode !== 'pg-boss') return null;
+  let timer: NodeJS.Timeout | undefined;
   try {
-    const boss = await fitBoss();
-    const waiting = await boss.getQueueSize(FIT_QUEUE);
-    const dead = await boss.getQueueSize(FIT_DEAD_QUEUE);
+    const sizes = (async () => {
+      const boss = await fitBoss();
+      return [await boss.getQueueSize(FIT_QUEUE), await boss.getQueueSize(FIT_DEAD_QUEUE)] as const;
+    })();
+    // A server that does not answer at all must not hold the health check up.
+    const late = new Promise<never>((_, reject) => {
+      timer = setTimeout(() => reject(new Error(`no answer within ${HEALTH_TIMEOUT_MS} ms`)), HEALTH_TIMEOUT_MS);
+    });
+    const [waiting, dead] = await Promise.race([sizes, late]);
     return { ok: true, detail: `pg-boss: ${waiting} fit turn${waiting === 1 ? '' : 's'} waiting${dead ? `, ${dead} lost job${dead === 1 ? '' : 's'} not yet handled` : ''}` };
   } catch (e) {
     return { ok: false, detail: `pg-boss does not answer: ${(e as Error).message}` };
+  } finally {
+    clearTimeout(timer);
   }
 }
