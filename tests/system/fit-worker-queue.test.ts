@@ -5,7 +5,7 @@
  * its progress shows through the app; a cancel through the app stops a fit running in the
  * worker; a worker killed with SIGKILL mid-fit leaves a job that pg-boss's expiry retries,
  * and a second worker takes the fit over and finishes it (never left 'running'); a worker
- * stopped with SIGTERM exits cleanly.
+ * stopped with SIGTERM mid-fit hands the fit back and exits cleanly, and a third finishes it.
  */
 import fs from 'node:fs';
 import path from 'node:path';
@@ -110,7 +110,7 @@ afterAll(async () => {
 });
 
 describe('fits through pg-boss with a separate worker process', () => {
-  it('runs a fit in the worker with progress through the app, cancels another, and survives a worker killed mid-fit', async () => {
+  it('runs a fit in the worker with progress through the app, survives a worker killed mid-fit, cancels another, and hands a fit back on SIGTERM', async () => {
     const first = await startWorker('worker-1');
 
     // Progress through the app while the worker computes.
@@ -153,9 +153,23 @@ describe('fits through pg-boss with a separate worker process', () => {
     const cancelled = await waitForFit(otherId, ended);
     expect(cancelled.status).toBe('cancelled');
 
-    // SIGTERM: the worker takes no new fit and exits cleanly.
+    // SIGTERM mid-fit: the worker takes no new fit, hands the running one back at its next candidate and exits cleanly.
+    const third = await api('/api/fits', { method: 'POST', body: JSON.stringify(longFit(7)) });
+    const thirdId = third.body.fit!.id;
+    await waitForFit(thirdId, (f) => f.status === 'running' && (f.progress?.fraction ?? 0) > 0);
     signal(second.child, 'SIGTERM');
     expect(await second.exited).toBe(0);
-    expect(second.log()).toMatch(/SIGTERM: handing back/);
+    expect(second.log()).toMatch(/SIGTERM: handing back 1 running fit/);
+    const handed = (await api(`/api/fits/${thirdId}`)).body.fit!;
+    expect(handed.status).toBe('queued');
+    expect(handed.progress).toMatchObject({ paused: true });
+    const jobs = await query<{ state: string }>(`SELECT state FROM pgboss.job WHERE name = 'partwise-fit' AND (data->>'fitId')::int = ${thirdId} AND state = 'created'`);
+    expect(jobs).toHaveLength(1);
+
+    // The next worker carries on from there.
+    const third_ = await startWorker('worker-3');
+    expect((await waitForFit(thirdId, ended)).status).toBe('succeeded');
+    signal(third_.child, 'SIGTERM');
+    expect(await third_.exited).toBe(0);
   });
 });
