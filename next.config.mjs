@@ -5,7 +5,7 @@ const nextConfig = {
   // Parallel work trees / test stacks may build side by side into their own folders.
   distDir: process.env.NEXT_DIST_DIR || '.next',
   // Native/ORM packages must stay as runtime requires, not bundled.
-  serverExternalPackages: ['sequelize', 'sqlite3', 'umzug', 'smtp-server', 'mailparser', 'nodemailer'],
+  serverExternalPackages: ['sequelize', 'pg-boss', 'sqlite3', 'umzug', 'smtp-server', 'mailparser', 'nodemailer'],
   poweredByHeader: false,
   reactStrictMode: true,
   async headers() {

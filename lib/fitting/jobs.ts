@@ -29,6 +29,7 @@ import { rankOutcome, type ComputeInput, type StoredCandidate } from './compute'
 import { CONTROL_WORDS, PAUSE, STOP, type WorkerMessage, type WorkerProgress, type WorkerStart } from './protocol';
 import { loadQueueSnapshot } from './queue';
 import { pickNextFit, shouldYield } from './schedule';
+import { fitBoss, fitTurnMaxMs, publishFitTurn, queueConfigured } from './fit-queue';
 
 /** How often a running job's progress is written and its cancel flag read. */
 export function progressWriteMs(): number {
@@ -43,6 +44,8 @@ interface RunnerState {
   pumping: boolean;
   /** A pump was asked for while one was under way: look at the queue once more before stopping. */
   again: boolean;
+  /** Set by a queue worker on SIGTERM: running fits pause at their next candidate and go back to the queue. */
+  draining?: boolean;
 }
 const g = globalThis as unknown as { __partwiseFitRunner?: RunnerState };
 function runner(): RunnerState {
@@ -150,12 +153,18 @@ export async function startFit(workspaceId: number, userId: number | null, input
   const progress: FitProgressView = { phase: 'queued', candidates, restarts: params.restarts, maxIter: params.maxIter, fraction: 0, rows: matrix.n, updatedAt: new Date().toISOString() };
   const plan = await workspacePlan(workspaceId);
   const limit = fitQueueLimit(plan.id);
+  // On a queue, pg-boss is started before the transaction (its first start creates its schema), so the lock is held only for the inserts.
+  const onQueue = queueConfigured();
+  if (onQueue) await fitBoss();
   // Write transactions of one process already take turns (models/db.ts), so a burst of creations cannot starve the one holding the lock.
   const fit = await sequelize.transaction(async (transaction) => {
     await lockWorkspace(workspaceId, transaction);
     const open = await Fit.count({ where: { workspaceId, status: ['queued', 'running'] }, transaction });
     if (open >= limit) throw queueCapError(plan, open, limit);
-    return Fit.create({ workspaceId, datasetId: dataset.id, createdById: userId, status: 'queued', params: stored as unknown as Record<string, unknown>, progress: progress as unknown as Record<string, unknown> }, { transaction });
+    const row = await Fit.create({ workspaceId, datasetId: dataset.id, createdById: userId, status: 'queued', params: stored as unknown as Record<string, unknown>, progress: progress as unknown as Record<string, unknown> }, { transaction });
+    // The job goes in with the row: both commit or neither does.
+    if (onQueue) await publishFitTurn(row.id, transaction);
+    return row;
   });
   pumpFits();
   return fit;
@@ -163,6 +172,8 @@ export async function startFit(workspaceId: number, userId: number | null, input
 
 /** Start queued jobs, in the fair order, while this process has free slots. */
 export function pumpFits(): void {
+  // On a queue, workers (npm run worker) take fits; app instances only publish them.
+  if (queueConfigured()) return;
   const state = runner();
   if (state.pumping) {
     state.again = true;
@@ -209,6 +220,21 @@ function workerFile(): string {
   return path.join(/*turbopackIgnore: true*/ process.cwd(), 'lib', 'fitting', 'worker.ts');
 }
 
+/** Mark this runner as stopping: its running fits pause at their next candidate (queue workers on SIGTERM). */
+export function drainRunner(on = true): void {
+  runner().draining = on;
+}
+
+/** A queue worker's turn is over: the slot is free for the yield rule's count. */
+export function releaseSlot(id: number): void {
+  runner().active.delete(id);
+}
+
+/** A running fit of this runner ends with this status (also used by the queue worker for its failures). */
+export async function finishFit(id: number, values: Partial<Pick<Fit, 'status' | 'error' | 'result' | 'progress'>>): Promise<void> {
+  return finish(id, values);
+}
+
 async function finish(id: number, values: Partial<Pick<Fit, 'status' | 'error' | 'result' | 'progress'>>) {
   const now = new Date();
   await Fit.update({ ...values, checkpoint: null, finishedAt: now, lastTurnAt: now }, { where: { id, runnerId: runner().id } });
@@ -218,6 +244,9 @@ async function finish(id: number, values: Partial<Pick<Fit, 'status' | 'error' |
 async function yieldWanted(fit: Fit, turnStartedAt: number): Promise<boolean> {
   const state = runner();
   const now = Date.now();
+  if (state.draining) return true;
+  // On a queue a turn is bounded, so its job stays well inside pg-boss's expiry.
+  if (queueConfigured() && now - turnStartedAt >= fitTurnMaxMs()) return true;
   const sliceMs = fitSliceMs();
   if (now - turnStartedAt < sliceMs) return false;
   const job = { id: fit.id, workspaceId: fit.workspaceId, createdAt: fit.createdAt.getTime(), turnStartedAt };
@@ -225,7 +254,7 @@ async function yieldWanted(fit: Fit, turnStartedAt: number): Promise<boolean> {
 }
 
 /** One turn of a job in a slot: from its checkpoint (or the start) until it finishes, fails, is cancelled or pauses. */
-async function runTurn(id: number, turnStartedAt: number): Promise<void> {
+export async function runTurn(id: number, turnStartedAt: number): Promise<void> {
   const fit = await Fit.findByPk(id);
   if (!fit) return;
   const params = fit.params as unknown as StoredFitParams;
@@ -337,10 +366,19 @@ async function runTurn(id: number, turnStartedAt: number): Promise<void> {
     const kept: FitCheckpoint = { next: outcome.next, candidates: [...checkpoint.candidates, ...outcome.candidates], elapsedMs: durationMs };
     const progress: FitProgressView = { ...(latest ? view(latest) : { candidates, restarts: params.restarts, maxIter: params.maxIter, rows: matrix.n, updatedAt: '' }), phase: 'queued', paused: true, fitted: outcome.next, fraction: outcome.next / candidates, updatedAt: new Date().toISOString() };
     // Back in the queue under its old createdAt, so it stays first in line within its workspace.
-    const [queued] = await Fit.update(
-      { status: 'queued', runnerId: null, lastTurnAt: new Date(), checkpoint: kept as unknown as Record<string, unknown>, progress: progress as unknown as Record<string, unknown> },
-      { where: { id, runnerId: runner().id, status: 'running', cancelRequested: false } },
-    );
+    const requeue = (transaction?: import('sequelize').Transaction) =>
+      Fit.update(
+        { status: 'queued', runnerId: null, lastTurnAt: new Date(), checkpoint: kept as unknown as Record<string, unknown>, progress: progress as unknown as Record<string, unknown> },
+        { where: { id, runnerId: runner().id, status: 'running', cancelRequested: false }, transaction },
+      );
+    // On a queue, the next turn's job is sent with the row's return to 'queued'.
+    const [queued] = queueConfigured()
+      ? await sequelize.transaction(async (transaction) => {
+          const r = await requeue(transaction);
+          if (r[0] === 1) await publishFitTurn(id, transaction);
+          return r;
+        })
+      : await requeue();
     // Not queued: cancelled in the meantime (or taken from this runner), so it ends as cancelled if still ours.
     if (queued !== 1) return finish(id, { status: 'cancelled', error: cancelled(), progress: lastProgress });
     return;
@@ -398,7 +436,8 @@ export async function cancelFit(workspaceId: number, id: number): Promise<Fit> {
  * are picked up, paused ones from their checkpoint. Returns how many jobs were failed.
  */
 export async function recoverInterruptedFits(): Promise<number> {
-  const [failed] = await Fit.update(
+  // On a queue, running fits belong to workers, possibly alive on other machines: a dead worker's fit comes back through pg-boss's expiry (fit-queue.ts).
+  const [failed] = queueConfigured() ? [0] : await Fit.update(
     { status: 'failed', error: RESTART_REASON, checkpoint: null, finishedAt: new Date() },
     { where: { status: 'running', [Op.or]: [{ runnerId: { [Op.ne]: runner().id } }, { runnerId: null }] } },
   );

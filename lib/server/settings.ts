@@ -1,4 +1,5 @@
 import { LocalSecretError, MIN_SECRET_LENGTH, localSecretPath, readLocalSecret } from '@/lib/auth/local-secret';
+import { FitQueueConfigError, fitQueueMode } from '@/lib/fitting/queue-config';
 import { KNOWN_PAYMENT_KEYS, KNOWN_SESSION_SECRETS, KNOWN_WEBHOOK_SECRETS, isKnownSecret } from './known-secrets';
 
 /**
@@ -40,6 +41,12 @@ export function productionSettingProblems(env: Record<string, string | undefined
     // A deployment: the payment fake's old fixed keys and the tests' keys are public.
     if (isKnownSecret(KNOWN_PAYMENT_KEYS, env.STRIPE_SECRET_KEY)) problems.push('STRIPE_SECRET_KEY is a key published in the Partwise source (the payment fake\'s or a test\'s): use the key of your payment service account.');
     if (isKnownSecret(KNOWN_WEBHOOK_SECRETS, env.STRIPE_WEBHOOK_SECRET)) problems.push('STRIPE_WEBHOOK_SECRET is a signing secret published in the Partwise source (the payment fake\'s or a test\'s): anyone could forge payment webhooks with it. Use the signing secret of your webhook endpoint.');
+  }
+  try {
+    fitQueueMode(env);
+  } catch (e) {
+    if (!(e instanceof FitQueueConfigError)) throw e;
+    problems.push(e.message);
   }
   return problems;
 }

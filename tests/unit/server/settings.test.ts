@@ -11,6 +11,12 @@ const tmp = fs.mkdtempSync(path.join(os.tmpdir(), 'partwise-settings-'));
 afterAll(() => fs.rmSync(tmp, { recursive: true, force: true }));
 
 describe('production settings', () => {
+  it('refuse a fit queue the app does not know, and pg-boss without PostgreSQL, in one line each', () => {
+    expect(productionSettingProblems({ ...good, PARTWISE_FIT_QUEUE: 'pg-boss', DATABASE_URL: 'postgres://p@db.example/partwise' })).toEqual([]);
+    expect(productionSettingProblems({ ...good, PARTWISE_FIT_QUEUE: 'in-process' })).toEqual([]);
+    expect(productionSettingProblems({ ...good, PARTWISE_FIT_QUEUE: 'pg-boss' })).toEqual([expect.stringMatching(/^PARTWISE_FIT_QUEUE=pg-boss needs DATABASE_URL to be a postgres:\/\/ address/)]);
+    expect(productionSettingProblems({ ...good, PARTWISE_FIT_QUEUE: 'redis' })).toEqual([expect.stringMatching(/^PARTWISE_FIT_QUEUE is "redis", which Partwise does not know/)]);
+  });
   it('accept a complete configuration', () => {
     expect(productionSettingProblems(good)).toEqual([]);
     expect(productionSettingProblems({ ...good, STRIPE_SECRET_KEY: 'sk_live_x', STRIPE_WEBHOOK_SECRET: 'whsec_x' })).toEqual([]);
