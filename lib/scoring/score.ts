@@ -5,7 +5,7 @@ import { callerOrigin } from '@/lib/embeds/origins';
 import { AppError } from '@/lib/errors';
 import { readJson, type BodySource } from '@/lib/http/handler';
 import { calculatorBurstLimits, type BurstLimit, type PlanId } from '@/lib/plans';
-import { giveBackShared, limitClock, sharedLimits, takeSharedToken, takeSharedTokens, takeToken, takeTokens, type LimitOptions } from '@/lib/rate-limit';
+import { giveBackShared, limitClock, takeSharedToken, takeSharedTokens, takeToken, takeTokens, type LimitOptions } from '@/lib/rate-limit';
 import { recordAnswer } from '@/lib/usage';
 import { recordInsight } from '@/lib/insight/counters';
 import { noteBurst, notePaused } from './alerts';
@@ -149,7 +149,7 @@ export async function scoreForToken(token: string, call: ScoreCall): Promise<{ a
   const address = call.address ?? 'unknown';
   // REDIS_URL: the limits are counted in Redis across every instance (awaited, all before
   // the synchronous block below); without it, this process's synchronous buckets.
-  const shared = sharedLimits();
+  const shared = rules.sharedLimits;
   const addressKey = `score:addr:${address}`;
   const byAddress = shared ? await takeSharedToken(addressKey, rules.perAddress) : takeToken(addressKey, rules.perAddress);
   if (!byAddress.ok) throw limited(byAddress.retryAfterSeconds, 'from your network');

@@ -2,6 +2,7 @@ import { afterEach, describe, expect, it } from 'vitest';
 import { GET } from '@/app/api/health/route';
 import { registerHealthCheck } from '@/lib/health';
 import { closeRedis } from '@/lib/shared/redis';
+import { testRedisUrl } from '../../helpers/redis';
 
 const call = () => GET(new Request('http://localhost/api/health'), { params: Promise.resolve({}) });
 
@@ -69,9 +70,7 @@ describe('GET /api/health', () => {
     });
 
     it('reports Redis separately: up on the test Redis, down on a closed port', async () => {
-      const url = process.env.PARTWISE_TEST_REDIS_URL;
-      if (!url) throw new Error('PARTWISE_TEST_REDIS_URL is not set: run through npm test, which starts a throwaway Redis');
-      process.env.REDIS_URL = url;
+      process.env.REDIS_URL = testRedisUrl();
       let response = await call();
       expect(response.status).toBe(200);
       expect((await response.json()).redis).toMatchObject({ ok: true });
