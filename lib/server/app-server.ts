@@ -7,6 +7,7 @@ import { jsonForBareApiErrors, settleMalformedPath } from './odd-requests';
 import { ensureLocalSecret, localSecretPath } from '@/lib/auth/local-secret';
 import { answerScore, scoringToken } from './score-fast-path';
 import { startBroadcast, stopBroadcast } from '@/lib/shared/broadcast';
+import { connectRedis, redisUrl } from '@/lib/shared/redis';
 
 /**
  * The production HTTP server: Next's request handler behind a node:http server that
@@ -93,6 +94,8 @@ function prepareLocalSecret() {
 
 /** The listener retries in the background; a start does not wait more than a few seconds for it. */
 async function listenForInvalidations(): Promise<void> {
+  // Shared rate limits count in Redis from the first answer (not in the fallback while connecting).
+  if (redisUrl() && !(await connectRedis())) console.error('[partwise] Redis (REDIS_URL) does not answer yet; rate limits count per instance until it does.');
   let timer: NodeJS.Timeout | undefined;
   try {
     const transport = await Promise.race([

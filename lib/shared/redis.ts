@@ -75,3 +75,22 @@ export async function closeRedis(): Promise<void> {
   held.__partwiseRedis = undefined;
   if (h) await h.client.quit().catch(() => h.client.disconnect());
 }
+
+/**
+ * Connect the command connection now (server start), so the first answers count in Redis
+ * rather than in the insurance limiter while the connection is still being made.
+ */
+export async function connectRedis(timeoutMs = 5000): Promise<boolean> {
+  const client = redisClient();
+  if (!client) return false;
+  if (client.status === 'ready') return true;
+  let timer: NodeJS.Timeout | undefined;
+  try {
+    await Promise.race([client.ping(), new Promise<never>((_, reject) => (timer = setTimeout(() => reject(new Error('timed out')), timeoutMs)))]);
+    return true;
+  } catch {
+    return false;
+  } finally {
+    clearTimeout(timer);
+  }
+}
