@@ -1,5 +1,6 @@
 import { randomUUID } from 'node:crypto';
 import pg from 'pg';
+import Redis from 'ioredis';
 import { databaseDialect, databasePath, getSequelize } from '@/models/db';
 import { redisClient, redisSubscriber, redisUrl } from './redis';
 
@@ -72,7 +73,17 @@ export function announce(message: Invalidation): void {
   const wire = JSON.stringify({ ...message, from: state.id } satisfies Wire);
   const failed = (e: unknown) => console.error('[partwise] could not announce a cache invalidation:', (e as Error).message);
   try {
-    if (transport === 'redis') redisClient()!.publish(REDIS_CHANNEL, wire).catch(failed);
+    if (transport === 'redis' && state.listener) redisClient()!.publish(REDIS_CHANNEL, wire).catch(failed);
+    else if (transport === 'redis') {
+      // A process that does not listen (a CLI tool, the seed): a connection of its own for
+      // this one message, closed after, so it does not keep the process alive.
+      const once = new Redis(redisUrl()!, { maxRetriesPerRequest: 1, retryStrategy: () => null, lazyConnect: false });
+      once.on('error', () => {});
+      once
+        .publish(REDIS_CHANNEL, wire)
+        .catch(failed)
+        .finally(() => once.quit().catch(() => once.disconnect()));
+    }
     else getSequelize().query('SELECT pg_notify(?, ?)', { replacements: [PG_CHANNEL, wire], transaction: null }).catch(failed);
   } catch (e) {
     failed(e);
