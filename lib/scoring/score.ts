@@ -172,17 +172,7 @@ export async function scoreForToken(token: string, call: ScoreCall): Promise<{ a
   // synchronous block, and given back when that block refuses the answer.
   let sharedBurst: BurstBuckets | null = null;
   if (shared) {
-    if (ledger.used >= ledger.pauseAt) {
-      notePaused(ledger);
-      throw paused();
-    }
-    const burst = burstBuckets(embed.id, ledger.plan, rules.burstScale);
-    const taken = await takeSharedTokens(burst.buckets);
-    if (!taken.ok) {
-      noteBurst(embed, ledger, burst.limits[taken.blocked], limitClock());
-      throw calculatorBusy(taken.retryAfterSeconds);
-    }
-    sharedBurst = burst;
+    sharedBurst = await takeSharedBurst(embed, ledger, rules.burstScale);
     // The ledger may have been re-read while Redis answered: reserve from the current one.
     ledger = readyLedger(embed.workspaceId) ?? (await settleLedger(embed.workspaceId));
   }
@@ -233,6 +223,21 @@ export async function scoreForToken(token: string, call: ScoreCall): Promise<{ a
     reason: answerReason(version, score),
   };
   return { answer, embed };
+}
+
+/** The calculator's burst windows counted in Redis (REDIS_URL): every window or none, else a refusal. */
+async function takeSharedBurst(embed: ServedEmbed, ledger: AnswerLedger, burstScale: number): Promise<BurstBuckets> {
+  if (ledger.used >= ledger.pauseAt) {
+    notePaused(ledger);
+    throw paused();
+  }
+  const burst = burstBuckets(embed.id, ledger.plan, burstScale);
+  const taken = await takeSharedTokens(burst.buckets);
+  if (!taken.ok) {
+    noteBurst(embed, ledger, burst.limits[taken.blocked], limitClock());
+    throw calculatorBusy(taken.retryAfterSeconds);
+  }
+  return burst;
 }
 
 /** Wait for the workspace's ledger to be read (only when it is not ready: the usual path does not await). */
