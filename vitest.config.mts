@@ -33,6 +33,7 @@ export default defineConfig({
           // PostgreSQL's row locks; SQLite's file lock has locked-database.test.ts.
           exclude: ['tests/integration/foundation/locked-row.test.ts'],
           environment: 'node',
+          globalSetup: ['tests/setup/redis-global.ts'],
           setupFiles: ['tests/setup/integration-db.ts'],
           testTimeout: 60_000,
           hookTimeout: 60_000,
@@ -54,7 +55,7 @@ export default defineConfig({
           ],
           environment: 'node',
           env: { PARTWISE_TEST_DIALECT: 'postgres' },
-          globalSetup: ['tests/setup/postgres-global.ts'],
+          globalSetup: ['tests/setup/postgres-global.ts', 'tests/setup/redis-global.ts'],
           setupFiles: ['tests/setup/integration-db.ts'],
           testTimeout: 60_000,
           hookTimeout: 60_000,

@@ -1,12 +1,22 @@
+import { RateLimiterMemory, RateLimiterRedis, RateLimiterRes } from 'rate-limiter-flexible';
+import { redisClient, redisUrl } from '@/lib/shared/redis';
+
 /**
  * A small token-bucket rate limiter shared by every route that needs one (failed
  * sign-ins, sign-up, password-reset mails, public scoring…).
  *
  * Buckets live in memory, per server process. That is a cache safe to lose: a
  * restart only forgets recent attempts (everyone gets a full bucket again), and
- * nothing durable depends on it. Several processes each limit on their own; behind a
- * load balancer, swap the Map for a shared store (Redis INCR/PEXPIRE) with the same
- * function signatures.
+ * nothing durable depends on it. These synchronous buckets stay the limiter of one
+ * process (and of sign-in, sign-up and mail limits everywhere).
+ *
+ * With REDIS_URL set, the public scoring limits that must hold across app instances
+ * (per address, per calculator, the calculator's burst windows) go through
+ * `takeSharedToken`/`takeSharedTokens`: rate-limiter-flexible's Redis store (a
+ * fixed window of `limit` points per `windowMs`, counted atomically in Redis by every
+ * instance), with its memory store as insurance while Redis cannot be reached (each
+ * instance then limits on its own, as without Redis). Without REDIS_URL those two
+ * answer from the synchronous buckets here, so one process behaves exactly as before.
  *
  *   const r = takeToken(`signin:acct:${email}`, { limit: 5, windowMs: 15 * 60_000 });
  *   if (!r.ok) throw new AppError('rate_limited', '…', { headers: { 'Retry-After': String(r.retryAfterSeconds) } });
@@ -151,3 +161,83 @@ export const rateLimitTesting = {
   },
   size: () => store.size,
 };
+
+// ---- Shared limits (REDIS_URL): rate-limiter-flexible's Redis store -------------------
+
+/** Are the scoring limits shared through Redis in this process? */
+export function sharedLimits(): boolean {
+  return redisUrl() !== null;
+}
+
+const redisLimiters = ((globalThis as Record<symbol, unknown>)[Symbol.for('partwise.redisLimiters')] ??= new Map<string, RateLimiterRedis>()) as Map<string, RateLimiterRedis>;
+
+function redisLimiter(opts: LimitOptions): RateLimiterRedis {
+  check(opts);
+  const name = `${opts.limit}:${opts.windowMs}`;
+  let limiter = redisLimiters.get(name);
+  if (!limiter) {
+    const duration = Math.max(1, Math.ceil(opts.windowMs / 1000));
+    limiter = new RateLimiterRedis({
+      storeClient: redisClient()!,
+      // Options in the prefix: a changed limit starts its own count instead of reading another's.
+      keyPrefix: `partwise:rl:${name}`,
+      points: opts.limit,
+      duration,
+      // Redis away: answer at once from this process's own count instead of waiting for it.
+      rejectIfRedisNotReady: true,
+      insuranceLimiter: new RateLimiterMemory({ keyPrefix: `partwise:rl-local:${name}`, points: opts.limit, duration }),
+    });
+    redisLimiters.set(name, limiter);
+  }
+  return limiter;
+}
+
+function fromRes(res: RateLimiterRes, ok: boolean): LimitResult {
+  return { ok, remaining: Math.max(0, res.remainingPoints), retryAfterSeconds: ok ? 0 : Math.max(1, Math.ceil(res.msBeforeNext / 1000)) };
+}
+
+async function consumeShared(key: string, opts: LimitOptions): Promise<LimitResult> {
+  try {
+    return fromRes(await redisLimiter(opts).consume(key, 1), true);
+  } catch (refusal) {
+    if (refusal instanceof RateLimiterRes) return fromRes(refusal, false);
+    throw refusal;
+  }
+}
+
+/** `takeToken`, counted across every instance when REDIS_URL is set (else exactly `takeToken`). */
+export async function takeSharedToken(key: string, opts: LimitOptions): Promise<LimitResult> {
+  if (!sharedLimits()) return takeToken(key, opts);
+  return consumeShared(key, opts);
+}
+
+/**
+ * `takeTokens` across every instance: a point from every window or, in effect, from
+ * none (a refusal by one gives back the points the others took). Without REDIS_URL,
+ * exactly `takeTokens`.
+ */
+export async function takeSharedTokens(buckets: readonly { key: string; opts: LimitOptions }[]): Promise<MultiLimitResult> {
+  if (!sharedLimits()) return takeTokens(buckets);
+  const results = await Promise.all(buckets.map((b) => consumeShared(b.key, b.opts)));
+  const blocked = results.findIndex((r) => !r.ok);
+  if (blocked < 0) return { ok: true, remaining: Math.min(...results.map((r) => r.remaining)), retryAfterSeconds: 0, blocked: -1 };
+  await giveBackShared(buckets.filter((_, i) => results[i].ok));
+  return { ok: false, remaining: 0, retryAfterSeconds: Math.max(...results.map((r) => r.retryAfterSeconds)), blocked };
+}
+
+/** Return one point to each bucket (a request refused later, after its points were taken). */
+export async function giveBackShared(buckets: readonly { key: string; opts: LimitOptions }[]): Promise<void> {
+  if (!sharedLimits()) {
+    for (const b of buckets) {
+      const bucket = store.get(b.key);
+      if (bucket) bucket.tokens = Math.min(bucket.limit, bucket.tokens + 1);
+    }
+    return;
+  }
+  await Promise.all(buckets.map((b) => redisLimiter(b.opts).reward(b.key, 1).catch(() => {})));
+}
+
+/** Tests: forget the shared limiters (their Redis connection may have changed). */
+export function resetSharedLimiters(): void {
+  redisLimiters.clear();
+}

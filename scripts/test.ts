@@ -5,6 +5,7 @@ import { randomBytes } from 'node:crypto';
 import { buildIsStale } from './lib/build-state';
 import { ensureChromium } from './lib/ensure-chromium';
 import { ensurePostgresBinaries, startPostgres, testPostgresPort, type RunningPostgres } from './lib/ensure-postgres';
+import { ensureRedisServer, startRedis, testRedisPort, type RunningRedis } from './lib/ensure-redis';
 import { spawnAppServer } from './lib/app-process';
 import { run, waitForHttp } from './lib/run';
 import { startServices, stopServices, type RunningService } from './services';
@@ -13,7 +14,7 @@ import { startServices, stopServices, type RunningService } from './services';
  * `npm test`: every level in one run. Builds the app when sources changed, starts a
  * test stack (fresh migrated and seeded SQLite file, the local fakes, the built app
  * on a spare port, and a throwaway PostgreSQL for the integration-pg project, which
- * runs the integration tests a second time on PostgreSQL), runs vitest's projects
+ * runs the integration tests a second time on PostgreSQL, and a throwaway Redis), runs vitest's projects
  * against it, and stops everything. Extra arguments go to vitest (e.g. `npm test -- tests/unit`).
  */
 const PORT = process.env.PARTWISE_TEST_PORT ?? '3210';
@@ -23,6 +24,7 @@ const STACK_DIR = path.resolve(`.tmp/test-stack-${PORT}`);
 async function main() {
   ensureChromium();
   ensurePostgresBinaries();
+  ensureRedisServer();
   if (buildIsStale()) {
     console.log('[test] building the app…');
     await run('npm', ['run', 'build']);
@@ -51,6 +53,7 @@ async function main() {
   let services: RunningService[] = [];
   let server: ReturnType<typeof spawnAppServer> | undefined;
   let postgres: RunningPostgres | undefined;
+  let redis: RunningRedis | undefined;
   let exitCode = 1;
   try {
     Object.assign(process.env, env);
@@ -58,6 +61,11 @@ async function main() {
     if (!process.env.PARTWISE_TEST_PG_URL) {
       postgres = startPostgres(testPostgresPort(PORT));
       env.PARTWISE_TEST_PG_URL = postgres.url('');
+    }
+    // A throwaway redis-server (no persistence) for the tests of shared limits and invalidation.
+    if (!process.env.PARTWISE_TEST_REDIS_URL) {
+      redis = await startRedis(testRedisPort(PORT));
+      env.PARTWISE_TEST_REDIS_URL = redis.url;
     }
     services = await startServices({ dataDir: STACK_DIR, appUrl });
     for (const s of services) Object.assign(env, s.env);
@@ -87,6 +95,7 @@ async function main() {
     }
     await stopServices(services);
     postgres?.stop();
+    redis?.stop();
   }
   process.exit(exitCode);
 }

@@ -2,6 +2,7 @@ import { allowanceState, answerAllowance, type AllowanceState } from '@/lib/bill
 import type { PlanId } from '@/lib/plans';
 import { currentMonthPeriod, readMonthlyAnswersAtOnce } from '@/lib/usage';
 import { scoringSettings } from './limits';
+import { announce, onInvalidation } from '@/lib/shared/broadcast';
 
 /**
  * The answer allowance as a reservation counter, so calculators pause exactly at the
@@ -137,6 +138,15 @@ export async function answerState(workspaceId: number): Promise<AllowanceState> 
 
 /** After a plan change (or a test's change of the counts): read the allowance fresh next time. */
 export function invalidateAllowance(workspaceId?: number): void {
+  forgetAllowance(workspaceId);
+  // Every other app instance re-reads it too (lib/shared/broadcast).
+  announce({ kind: 'allowance', key: workspaceId ?? null });
+}
+
+onInvalidation('allowance', (m) => forgetAllowance(typeof m.key === 'number' ? m.key : undefined));
+
+/** This process only. */
+function forgetAllowance(workspaceId?: number): void {
   if (workspaceId === undefined) {
     store.reads.clear();
     store.ledgers.clear();

@@ -22,6 +22,8 @@ export interface ScoringSettings {
   allowanceCacheMs: number;
   /** Factor on every plan's calculator burst limits (lib/plans); 1 in production, raised by load benchmarks. */
   burstScale: number;
+  /** REDIS_URL is set: the scoring limits are counted in Redis across instances (lib/rate-limit). */
+  sharedLimits: boolean;
 }
 
 function readSettings(): ScoringSettings {
@@ -33,6 +35,7 @@ function readSettings(): ScoringSettings {
     embedCacheMs: envNumber('PARTWISE_EMBED_CACHE_MS', 2000, true),
     allowanceCacheMs: envNumber('PARTWISE_ALLOWANCE_CACHE_MS', 2000, true),
     burstScale: envNumber('PARTWISE_SCORE_BURST_SCALE', 1),
+    sharedLimits: Boolean((process.env.REDIS_URL ?? '').trim()),
   };
 }
 

@@ -5,11 +5,11 @@ import { callerOrigin } from '@/lib/embeds/origins';
 import { AppError } from '@/lib/errors';
 import { readJson, type BodySource } from '@/lib/http/handler';
 import { calculatorBurstLimits, type BurstLimit, type PlanId } from '@/lib/plans';
-import { limitClock, takeToken, takeTokens, type LimitOptions } from '@/lib/rate-limit';
+import { giveBackShared, limitClock, takeSharedToken, takeSharedTokens, takeToken, takeTokens, type LimitOptions } from '@/lib/rate-limit';
 import { recordAnswer } from '@/lib/usage';
 import { recordInsight } from '@/lib/insight/counters';
 import { noteBurst, notePaused } from './alerts';
-import { readyLedger, releaseAnswer, reserveAnswer, waitForLedger } from './allowance';
+import { readyLedger, releaseAnswer, reserveAnswer, waitForLedger, type AnswerLedger } from './allowance';
 import { scoringSettings } from './limits';
 import { isServing, loadServedEmbed, loadServedVersion, parseValues, type ServedEmbed, type ServedVersion } from './served';
 
@@ -147,7 +147,11 @@ function burstBuckets(embedId: number, plan: PlanId, scale: number): BurstBucket
 export async function scoreForToken(token: string, call: ScoreCall): Promise<{ answer: ScoreAnswer; embed: ServedEmbed }> {
   const rules = scoringSettings();
   const address = call.address ?? 'unknown';
-  const byAddress = takeToken(`score:addr:${address}`, rules.perAddress);
+  // REDIS_URL: the limits are counted in Redis across every instance (awaited, all before
+  // the synchronous block below); without it, this process's synchronous buckets.
+  const shared = rules.sharedLimits;
+  const addressKey = `score:addr:${address}`;
+  const byAddress = shared ? await takeSharedToken(addressKey, rules.perAddress) : takeToken(addressKey, rules.perAddress);
   if (!byAddress.ok) throw limited(byAddress.retryAfterSeconds, 'from your network');
 
   const embed = await loadServedEmbed(token);
@@ -155,31 +159,42 @@ export async function scoreForToken(token: string, call: ScoreCall): Promise<{ a
   if (!isServing(embed)) throw new AppError('gone', 'This calculator is not available.');
   checkCaller(call, embed);
 
-  const byToken = takeToken(`score:token:${embed.id}`, rules.perToken);
+  const tokenKey = `score:token:${embed.id}`;
+  const byToken = shared ? await takeSharedToken(tokenKey, rules.perToken) : takeToken(tokenKey, rules.perToken);
   if (!byToken.ok) throw limited(byToken.retryAfterSeconds, 'for this calculator right now');
 
   const body = await readJson(call, scoreBodySchema, { maxBytes: MAX_SCORE_BODY_BYTES });
   const version = await loadServedVersion(embed.activeVersionId!);
   const values = parseValues(version, body.values);
 
-  let ledger = readyLedger(embed.workspaceId);
-  for (let tries = 0; !ledger; tries++) {
-    const read = await waitForLedger(embed.workspaceId);
-    ledger = readyLedger(embed.workspaceId) ?? (tries >= 2 ? read : null);
+  let ledger = readyLedger(embed.workspaceId) ?? (await settleLedger(embed.workspaceId));
+  // Shared burst windows are counted in Redis, an await: taken here, before the
+  // synchronous block, and given back when that block refuses the answer.
+  let sharedBurst: BurstBuckets | null = null;
+  if (shared) {
+    sharedBurst = await takeSharedBurst(embed, ledger, rules.burstScale);
+    // The ledger may have been re-read while Redis answered: reserve from the current one.
+    ledger = readyLedger(embed.workspaceId) ?? (await settleLedger(embed.workspaceId));
   }
   // From here to recordAnswer nothing awaits: the checks, the reservation and the
   // metering happen in one step, so concurrent answers cannot pass the line together.
   if (ledger.used >= ledger.pauseAt) {
+    if (sharedBurst) void giveBackShared(sharedBurst.buckets);
     notePaused(ledger);
     throw paused();
   }
-  const burst = burstBuckets(embed.id, ledger.plan, rules.burstScale);
-  const taken = takeTokens(burst.buckets);
-  if (!taken.ok) {
-    noteBurst(embed, ledger, burst.limits[taken.blocked], limitClock());
-    throw calculatorBusy(taken.retryAfterSeconds);
+  if (!sharedBurst) {
+    const burst = burstBuckets(embed.id, ledger.plan, rules.burstScale);
+    const taken = takeTokens(burst.buckets);
+    if (!taken.ok) {
+      noteBurst(embed, ledger, burst.limits[taken.blocked], limitClock());
+      throw calculatorBusy(taken.retryAfterSeconds);
+    }
   }
-  if (!reserveAnswer(ledger)) throw paused();
+  if (!reserveAnswer(ledger)) {
+    if (sharedBurst) void giveBackShared(sharedBurst.buckets);
+    throw paused();
+  }
   let score: PartialRowScore;
   try {
     score = scoreValues(version, values, embed.typicalityThreshold);
@@ -208,6 +223,31 @@ export async function scoreForToken(token: string, call: ScoreCall): Promise<{ a
     reason: answerReason(version, score),
   };
   return { answer, embed };
+}
+
+/** The calculator's burst windows counted in Redis (REDIS_URL): every window or none, else a refusal. */
+async function takeSharedBurst(embed: ServedEmbed, ledger: AnswerLedger, burstScale: number): Promise<BurstBuckets> {
+  if (ledger.used >= ledger.pauseAt) {
+    notePaused(ledger);
+    throw paused();
+  }
+  const burst = burstBuckets(embed.id, ledger.plan, burstScale);
+  const taken = await takeSharedTokens(burst.buckets);
+  if (!taken.ok) {
+    noteBurst(embed, ledger, burst.limits[taken.blocked], limitClock());
+    throw calculatorBusy(taken.retryAfterSeconds);
+  }
+  return burst;
+}
+
+/** Wait for the workspace's ledger to be read (only when it is not ready: the usual path does not await). */
+async function settleLedger(workspaceId: number): Promise<AnswerLedger> {
+  let ledger: AnswerLedger | null = null;
+  for (let tries = 0; !ledger; tries++) {
+    const read = await waitForLedger(workspaceId);
+    ledger = readyLedger(workspaceId) ?? (tries >= 2 ? read : null);
+  }
+  return ledger;
 }
 
 /**

@@ -5,6 +5,7 @@ import { insightLookupFor, type InsightLookup } from '@/lib/insight/counters';
 import { Embed, ModelVersion, Workspace, type FieldSetting } from '@/models';
 import { rereadScoringSettings, scoringSettings } from './limits';
 import { sharedLookup } from './single-flight';
+import { announce, onInvalidation } from '@/lib/shared/broadcast';
 
 /**
  * What the public routes need about an embed, cached per token for a moment. Status is
@@ -64,17 +65,35 @@ const MAX_VERSIONS = 256;
 
 /** Forget what this process knows about an embed (by token or id) so the next call reads it fresh. */
 export function invalidateEmbed(tokenOrId: string | number): void {
+  forgetEmbed(tokenOrId);
+  // Every other app instance forgets it too (lib/shared/broadcast), within a second.
+  announce({ kind: 'embed', key: tokenOrId });
+}
+
+/** This process only: what invalidateEmbed does here, and what it makes every other process do. */
+function forgetEmbed(tokenOrId: string | number | null): void {
   // A lookup under way may have read the old row; it must not fill the cache.
   caches.loading.clear();
+  if (tokenOrId === null) return void caches.embeds.clear();
   if (typeof tokenOrId === 'string') caches.embeds.delete(tokenOrId);
   for (const [token, e] of caches.embeds) if (e.id === tokenOrId || e.token === tokenOrId) caches.embeds.delete(token);
 }
 
 /** After a workspace is suspended or restored: forget all its embeds at once. */
 export function invalidateWorkspace(workspaceId: number): void {
+  forgetWorkspace(workspaceId);
+  announce({ kind: 'workspace', key: workspaceId });
+}
+
+function forgetWorkspace(workspaceId: number | null): void {
   caches.loading.clear();
+  if (workspaceId === null) return void caches.embeds.clear();
   for (const [token, e] of caches.embeds) if (e.workspaceId === workspaceId) caches.embeds.delete(token);
 }
+
+// What other processes announce is cleared here, locally, and not announced again.
+onInvalidation('embed', (m) => forgetEmbed(m.key));
+onInvalidation('workspace', (m) => forgetWorkspace(typeof m.key === 'number' ? m.key : null));
 
 export const TOKEN_SHAPE = /^[A-Za-z0-9_-]{10,64}$/;
 

@@ -6,6 +6,8 @@ import { productionSettingProblems } from './settings';
 import { jsonForBareApiErrors, settleMalformedPath } from './odd-requests';
 import { ensureLocalSecret, localSecretPath } from '@/lib/auth/local-secret';
 import { answerScore, scoringToken } from './score-fast-path';
+import { startBroadcast, stopBroadcast } from '@/lib/shared/broadcast';
+import { connectRedis, redisUrl } from '@/lib/shared/redis';
 
 /**
  * The production HTTP server: Next's request handler behind a node:http server that
@@ -46,6 +48,9 @@ export async function startAppServer({ port, host, dev = false }: AppServerOptio
       res.end(JSON.stringify({ error: { code: 'internal', message: 'Something went wrong on our side. Please try again.' } }));
     });
   });
+  // Hear other instances' cache invalidations (Redis or PostgreSQL; nothing on SQLite) before answering.
+  await listenForInvalidations();
+  await registerQueueHealth();
   await new Promise<void>((resolve, reject) => {
     server.once('error', reject);
     server.listen(port, host, () => resolve());
@@ -65,6 +70,7 @@ export async function startAppServer({ port, host, dev = false }: AppServerOptio
     // (A held timer: with the listener closed, an unref'd one let node exit here, unflushed, with code 0.)
     await new Promise((r) => setTimeout(r, 500));
     server.closeAllConnections();
+    await stopBroadcast().catch(() => {});
     try {
       await flushUsage();
     } catch (e) {
@@ -86,3 +92,33 @@ function prepareLocalSecret() {
   if (action === 'created') console.log(`[partwise] local run: made a random session secret in ${file} (owner-only).`);
   if (action === 'replaced') console.warn(`[partwise] local run: ${reason} A new secret replaced it; everyone signs in again.`);
 }
+
+/** The listener retries in the background; a start does not wait more than a few seconds for it. */
+async function listenForInvalidations(): Promise<void> {
+  // Shared rate limits count in Redis from the first answer (not in the fallback while connecting).
+  if (redisUrl() && !(await connectRedis())) console.error('[partwise] Redis (REDIS_URL) does not answer yet; rate limits count per instance until it does.');
+  let timer: NodeJS.Timeout | undefined;
+  try {
+    const transport = await Promise.race([
+      startBroadcast(),
+      new Promise<never>((_, reject) => (timer = setTimeout(() => reject(new Error('no answer within 5 s')), 5000))),
+    ]);
+    if (transport) console.log(`[partwise] cache invalidations shared through ${transport === 'redis' ? 'Redis' : 'PostgreSQL'}`);
+  } catch (e) {
+    console.error('[partwise] cannot listen for other instances\' cache invalidations yet:', (e as Error).message);
+  } finally {
+    clearTimeout(timer);
+  }
+}
+
+/** With a fit queue configured, /api/health reports it as its own part (loaded only then: pg-boss is optional). */
+async function registerQueueHealth(): Promise<void> {
+  const { queueConfigured, queueHealth } = await import('@/lib/fitting/fit-queue');
+  if (!queueConfigured()) return;
+  const { registerHealthCheck } = await import('@/lib/health');
+  registerHealthCheck('queue', async () => {
+    const state = await queueHealth();
+    return state && { ok: state.ok, detail: state.detail };
+  });
+}
+
