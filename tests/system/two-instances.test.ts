@@ -11,9 +11,12 @@
  *   - the per-address scoring limit holds across both: one address, requests split
  *     between A and B, exactly the limit served;
  *   - the usage count is exact across both after they flush (on SIGTERM);
- *   - a session signed in on A is accepted by B (the same NEXTAUTH_SECRET).
+ *   - a session signed in on A is accepted by B (the same NEXTAUTH_SECRET);
+ *   - with the fit queue on, a fit started through A runs on a worker process (npm run
+ *     worker) and its progress and result show through B.
  */
 import { randomUUID } from 'node:crypto';
+import { spawn, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -35,6 +38,8 @@ let dir = '';
 let a: AppProcess | undefined;
 let b: AppProcess | undefined;
 let embeds: { id: number; token: string }[] = [];
+let appEnv = {} as NodeJS.ProcessEnv;
+let worker: ChildProcess | undefined;
 
 async function query<T extends object>(sql: string, replacements: unknown[] = []): Promise<T[]> {
   const db = openSequelize(databaseUrl);
@@ -84,7 +89,10 @@ beforeAll(async () => {
     PARTWISE_SCORE_BURST_SCALE: '1000',
     // A minute: only the broadcast can make B forget a calculator within a second.
     PARTWISE_EMBED_CACHE_MS: '60000',
+    // Fits go to the queue: the instances compute none, a worker process does.
+    PARTWISE_FIT_QUEUE: 'pg-boss',
   };
+  appEnv = env;
   delete env.NEXTAUTH_URL;
   await run('npx', ['tsx', 'scripts/migrate.ts', 'up'], { env, stdio: ['ignore', 'ignore', 'inherit'] });
   await run('npx', ['tsx', 'scripts/seed.ts'], { env, stdio: ['ignore', 'ignore', 'inherit'] });
@@ -101,6 +109,11 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
+  if (worker?.pid) {
+    try {
+      process.kill(-worker.pid, 'SIGTERM');
+    } catch {}
+  }
   await Promise.all([a?.stop(), b?.stop()]);
   if (databaseUrl && !pg) {
     const server = databaseUrl.slice(0, databaseUrl.lastIndexOf('/'));
@@ -189,5 +202,41 @@ describe('two app instances on one PostgreSQL and one Redis', () => {
       await new Promise((r) => setTimeout(r, 25));
     }
     expect(status).toBe(410);
+  });
+
+  it('runs a fit started through A on a worker, with its progress and result seen through B', async () => {
+    const logFile = path.join(dir, 'worker.log');
+    const out = fs.openSync(logFile, 'a');
+    worker = spawn(process.execPath, ['--import', 'tsx', 'scripts/worker.ts'], { env: appEnv, stdio: ['ignore', out, out], detached: true });
+    const started = Date.now();
+    while (!/taking fits from pg-boss/.test(fs.readFileSync(logFile, 'utf8'))) {
+      if (worker.exitCode !== null || Date.now() - started > 60_000) throw new Error(`the worker did not start:\n${fs.readFileSync(logFile, 'utf8')}`);
+      await new Promise((r) => setTimeout(r, 100));
+    }
+    const cookie = await signIn(a!, DEMO_USERS.member);
+    const [dataset] = await query<{ id: number }>('SELECT id FROM datasets ORDER BY id LIMIT 1');
+    const res = await fetch(`${a!.url}/api/fits`, {
+      method: 'POST',
+      headers: { cookie, 'content-type': 'application/json', origin: a!.url },
+      body: JSON.stringify({ datasetId: dataset.id, features: Object.keys(good), minComponents: 1, maxComponents: 6, covariances: ['full', 'diagonal', 'spherical'], restarts: 4, seed: 11 }),
+    });
+    expect(res.status, await res.clone().text()).toBe(202);
+    const { fit } = (await res.json()) as { fit: { id: number } };
+    const seen = new Set<string>();
+    let last: { status: string; progress?: { fraction?: number } } | null = null;
+    while (Date.now() - started < 120_000) {
+      const onB = await fetch(`${b!.url}/api/fits/${fit.id}`, { headers: { cookie } });
+      expect(onB.status).toBe(200);
+      last = ((await onB.json()) as { fit: { status: string; progress?: { fraction?: number } } }).fit;
+      seen.add(last.status);
+      if (last.status !== 'queued' && last.status !== 'running') break;
+      await new Promise((r) => setTimeout(r, 100));
+    }
+    expect(last?.status).toBe('succeeded');
+    expect(last?.progress?.fraction).toBe(1);
+    // The row names the worker's process as its runner, not either app instance.
+    const [row] = await query<{ runner_id: string | null }>('SELECT runner_id FROM fits WHERE id = ?', [fit.id]);
+    expect(String(row.runner_id)).toContain(`:${worker.pid}:`);
+    expect(seen.has('running') || seen.has('queued')).toBe(true);
   });
 });
