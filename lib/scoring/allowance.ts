@@ -95,8 +95,8 @@ export async function waitForLedger(workspaceId: number): Promise<AnswerLedger> 
   return readyLedger(workspaceId) ?? (await readLedger(workspaceId));
 }
 
-/** The installed ledger, read if needed (for callers that only look). */
-async function loadLedger(workspaceId: number): Promise<AnswerLedger> {
+/** The installed ledger, read if needed (for callers that only look, or reserve after an await). */
+export async function loadLedger(workspaceId: number): Promise<AnswerLedger> {
   const read = await waitForLedger(workspaceId);
   return readyLedger(workspaceId) ?? read;
 }

@@ -5,7 +5,7 @@ import { formatCount } from '@/lib/format';
 import { discardBody, readBytesCapped, readTextCapped } from '@/lib/http/body';
 import { batchBodyBytes, BATCH_ROWS_PER_REQUEST } from '@/lib/plans';
 import { recordAnswers } from '@/lib/usage';
-import { answersLeft, readyLedger, releaseAnswers, reserveAnswers, waitForLedger, type AnswerLedger } from './allowance';
+import { answersLeft, loadLedger, readyLedger, releaseAnswers, reserveAnswers } from './allowance';
 import { batchCsvBlocks, batchJsonBlocks, parseBatchCsv, parseBatchJson, scoreBatch, textStream, type BatchRows } from './batch';
 import { loadServedVersion } from './served';
 
@@ -34,11 +34,6 @@ export interface BatchAnswer {
   version: number;
 }
 
-async function ledgerOf(workspaceId: number): Promise<AnswerLedger> {
-  const read = await waitForLedger(workspaceId);
-  return readyLedger(workspaceId) ?? read;
-}
-
 export async function scoreBatchRequest(req: BatchRequest): Promise<BatchAnswer> {
   try {
     return await scoreBatchNow(req);
@@ -56,7 +51,7 @@ async function scoreBatchNow(req: BatchRequest): Promise<BatchAnswer> {
   if (embed.status !== 'active' || !workspace || workspace.suspendedAt !== null || embed.activeVersionId === null) {
     throw new AppError('conflict', embed.status === 'disabled' ? 'This calculator is disabled by Partwise support, so it scores nothing.' : 'This calculator serves no version right now, so it scores nothing.');
   }
-  const ledger = await ledgerOf(req.workspaceId);
+  const ledger = await loadLedger(req.workspaceId);
   const maxRows = BATCH_ROWS_PER_REQUEST[ledger.plan];
   const maxBytes = batchBodyBytes(ledger.plan);
   const tooLarge = () => new AppError('payload_too_large', `The body is larger than ${formatCount(maxBytes / 1024 / 1024)} MB, the most a batch may send on your plan.`);

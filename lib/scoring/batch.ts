@@ -196,6 +196,7 @@ export function scoreBatch(version: BatchVersion, rows: BatchRows, unusualBelow:
     const s = scoreRows(engine, rows.values, rows.n);
     out = { n: rows.n, k, probabilities: s.probabilities, best: s.best, logDensity: s.logDensity, typicality: s.typicality, unusual: new Uint8Array(rows.n) };
   } else {
+    if (engine.features.length > MAX_MASK_FIELDS) throw new AppError('invalid_input', 'This model has too many fields for blank values; give every field a value.');
     // Complete rows in one engine call; the few rows with blanks one by one from their marginal.
     const partial = new Set(rows.partial);
     const complete = rows.n - partial.size;
@@ -217,7 +218,6 @@ export function scoreBatch(version: BatchVersion, rows: BatchRows, unusualBelow:
         out.typicality[r] = s.typicality[i];
       }
     }
-    if (engine.features.length > MAX_MASK_FIELDS) throw new AppError('invalid_input', 'This model has too many fields for blank values; give every field a value.');
     for (const r of rows.partial) {
       const row = Array.from(rows.values.subarray(r * d, (r + 1) * d), (v) => (Number.isNaN(v) ? null : v));
       const s = scoreRowPartial(engine, row, { unusualBelow, sample: version.sample ?? undefined });
