@@ -6,6 +6,7 @@ import type { ChildProcess } from 'node:child_process';
 import { buildIsStale } from './lib/build-state';
 import { spawnAppServer } from './lib/app-process';
 import { run, waitForHttp } from './lib/run';
+import { arg } from './lib/args';
 
 /**
  * Batch-scoring benchmark: `npm run bench:batch [-- --rows 100000 --runs 3 --port 3291]`
@@ -21,11 +22,6 @@ import { run, waitForHttp } from './lib/run';
  * to the answer's first byte. Builds into NEXT_DIST_DIR (default .next-bench) when stale;
  * uses a fresh SQLite file; the Lab plan's 250 000 answers a month bound the runs.
  */
-function arg(name: string, fallback: string): string {
-  const i = process.argv.indexOf(`--${name}`);
-  return i > 0 && process.argv[i + 1] ? process.argv[i + 1] : fallback;
-}
-
 const ROWS = Number(arg('rows', '100000'));
 const RUNS = Number(arg('runs', '3'));
 const PORT = Number(arg('port', '3291'));

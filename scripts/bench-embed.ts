@@ -8,6 +8,7 @@ import autocannon from 'autocannon';
 import { buildIsStale } from './lib/build-state';
 import { spawnAppServer } from './lib/app-process';
 import { run, waitForHttp } from './lib/run';
+import { arg } from './lib/args';
 
 /**
  * Calculator benchmark: `npx tsx scripts/bench-embed.ts [--duration 10] [--connections 64] [--port 3290]`
@@ -23,11 +24,6 @@ import { run, waitForHttp } from './lib/run';
  *    the same warm-up (`--warm-up 5` seconds, discarded), and their ratio.
  * Builds into NEXT_DIST_DIR (default .next-bench) when stale; uses a fresh SQLite file.
  */
-function arg(name: string, fallback: string): string {
-  const i = process.argv.indexOf(`--${name}`);
-  return i > 0 && process.argv[i + 1] ? process.argv[i + 1] : fallback;
-}
-
 const DURATION = Number(arg('duration', '10'));
 const CONNECTIONS = Number(arg('connections', '64'));
 const PORT = Number(arg('port', '3290'));

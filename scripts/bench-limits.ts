@@ -1,6 +1,7 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { run } from './lib/run';
+import { arg } from './lib/args';
 
 /**
  * Plan-limit burst benchmark: `npx tsx scripts/bench-limits.ts [--burst 20] [--rounds 5]`
@@ -13,11 +14,6 @@ import { run } from './lib/run';
  * and the statuses seen. Figures only; correctness is tested in
  * tests/integration/security/limits-race.test.ts.
  */
-function arg(name: string, fallback: string): string {
-  const i = process.argv.indexOf(`--${name}`);
-  return i > 0 && process.argv[i + 1] ? process.argv[i + 1] : fallback;
-}
-
 const BURST = Number(arg('burst', '20'));
 const ROUNDS = Number(arg('rounds', '5'));
 const DIR = path.resolve('.tmp/bench-limits');

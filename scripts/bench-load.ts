@@ -6,6 +6,7 @@ import autocannon from 'autocannon';
 import { buildIsStale } from './lib/build-state';
 import { spawnAppServer } from './lib/app-process';
 import { run, waitForHttp } from './lib/run';
+import { arg } from './lib/args';
 
 /**
  * Load benchmark: `npm run bench:load [-- --duration 20 --connections 32 --port 3275]`
@@ -18,11 +19,6 @@ import { run, waitForHttp } from './lib/run';
  * that the usage counters grew by exactly the number of 200 answers: no answer lost or
  * counted twice under concurrent SQLite writes. Exits non-zero when they differ.
  */
-function arg(name: string, fallback: string): string {
-  const i = process.argv.indexOf(`--${name}`);
-  return i > 0 && process.argv[i + 1] ? process.argv[i + 1] : fallback;
-}
-
 const DURATION = Number(arg('duration', '20'));
 const CONNECTIONS = Number(arg('connections', '32'));
 const PORT = Number(arg('port', process.env.PARTWISE_BENCH_PORT ?? '3275'));

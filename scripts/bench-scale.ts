@@ -10,6 +10,7 @@ import { spawnAppServer } from './lib/app-process';
 import { startPostgres, type RunningPostgres } from './lib/ensure-postgres';
 import { startRedis, type RunningRedis } from './lib/ensure-redis';
 import { run, waitForHttp } from './lib/run';
+import { arg } from './lib/args';
 
 /**
  * More than one machine, measured on this one: `npm run bench:scale [-- --duration 10 --fits 6]`
@@ -23,11 +24,6 @@ import { run, waitForHttp } from './lib/run';
  * and the load generator share the same cores, so the second instance mostly measures
  * the overhead of the proxy; the setup is what a real deployment runs on more machines.
  */
-function arg(name: string, fallback: string): string {
-  const i = process.argv.indexOf(`--${name}`);
-  return i > 0 && process.argv[i + 1] ? process.argv[i + 1] : fallback;
-}
-
 const DURATION = Number(arg('duration', '10'));
 const CONNECTIONS = Number(arg('connections', '32'));
 const FITS = Number(arg('fits', '6'));
