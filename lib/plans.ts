@@ -99,10 +99,10 @@ export function formatPrice(cents: number): string {
 
 /**
  * How fast one calculator may spend its workspace's monthly answers. Each window is a
- * token bucket per calculator whose size is a share of the plan's monthly allowance
- * and which refills evenly over the window, so a crowd of addresses (each under its own
- * per-address limit) cannot drain a month in an afternoon: at most 2 % of the month in
- * a minute, 10 % in an hour, 25 % in a day, and using up a whole month this way takes
+ * fixed window per calculator (lib/rate-limit) whose size is a share of the plan's
+ * monthly allowance, so a crowd of addresses (each under its own per-address limit)
+ * cannot drain a month in an afternoon: 2 % of the month a minute, 10 % an hour, 25 % a
+ * day (twice that where two windows meet), and using up a whole month this way takes
  * days, time enough for the owner, who is e-mailed on the first refusal, to react.
  */
 export const CALCULATOR_BURST_SHARES = [
@@ -115,9 +115,9 @@ export type BurstWindow = (typeof CALCULATOR_BURST_SHARES)[number]['window'];
 
 export interface BurstLimit {
   window: BurstWindow;
-  /** Answers one calculator may give at once in this window (the bucket's size). */
+  /** Answers one calculator may give in one such window. */
   answers: number;
-  /** Time in which a drained bucket refills completely. */
+  /** The window's length. */
   windowMs: number;
 }
 

@@ -21,7 +21,7 @@ import { BCRYPT_ROUNDS } from './signup';
 const PASSWORD_CHECKS = { limit: 5, windowMs: 15 * 60_000 };
 
 async function checkPassword(user: User, typed: string, field: string): Promise<void> {
-  limitOrThrow(`account:password-check:${user.id}`, PASSWORD_CHECKS, 'password attempts');
+  await limitOrThrow(`account:password-check:${user.id}`, PASSWORD_CHECKS, 'password attempts');
   if (!(await bcrypt.compare(typed, user.passwordHash))) {
     throw new AppError('invalid_input', 'That is not your current password.', { issues: [{ field, message: 'That is not your current password.' }] });
   }

@@ -21,7 +21,7 @@ export const INVITATION_TTL_MS = 7 * DAY;
  * link and expiry). Open invitations hold a seat of the plan.
  */
 export async function createInvitation(actor: WorkspaceActor, input: { email: string; role: WorkspaceRole }, request?: Request): Promise<Invitation> {
-  limitOrThrow(`invite:workspace:${actor.workspace.id}`, ACCOUNT_LIMITS.invitesPerWorkspace, 'invitations');
+  await limitOrThrow(`invite:workspace:${actor.workspace.id}`, ACCOUNT_LIMITS.invitesPerWorkspace, 'invitations');
   const workspaceId = actor.workspace.id;
   const existingUser = await User.findOne({ where: { email: input.email } });
   if (existingUser?.isStaff) throw new AppError('conflict', 'That address belongs to Partwise support staff, who do not join workspaces.', { issues: [{ field: 'email', message: 'Staff accounts cannot join workspaces.' }] });

@@ -1,6 +1,6 @@
 import { AppError } from '@/lib/errors';
 import { clientAddress } from '@/lib/audit';
-import { takeToken, type LimitOptions } from '@/lib/rate-limit';
+import { consumeLimit, type LimitOptions } from '@/lib/rate-limit';
 
 /** Limits on the account routes that send mail or create records. */
 export const ACCOUNT_LIMITS = {
@@ -11,9 +11,9 @@ export const ACCOUNT_LIMITS = {
   invitesPerWorkspace: { limit: 30, windowMs: 60 * 60_000 },
 } satisfies Record<string, LimitOptions>;
 
-/** Take a token or throw 429 with Retry-After. */
-export function limitOrThrow(key: string, opts: LimitOptions, what: string): void {
-  const r = takeToken(key, opts);
+/** Count one request or throw 429 with Retry-After. */
+export async function limitOrThrow(key: string, opts: LimitOptions, what: string): Promise<void> {
+  const r = await consumeLimit(key, opts);
   if (!r.ok) {
     const minutes = Math.ceil(r.retryAfterSeconds / 60);
     throw new AppError('rate_limited', `Too many ${what} from here. Try again in ${minutes} minute${minutes === 1 ? '' : 's'}.`, { headers: { 'Retry-After': String(r.retryAfterSeconds) } });

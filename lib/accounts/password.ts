@@ -3,8 +3,9 @@ import { AppError } from '@/lib/errors';
 import { recordAudit } from '@/lib/audit';
 import { enqueueMail } from '@/lib/mail';
 import { appLink, passwordResetMail } from '@/lib/mail/templates';
-import { resetLimit, takeToken } from '@/lib/rate-limit';
+import { consumeLimit, resetLimit } from '@/lib/rate-limit';
 import { endSessions } from '@/lib/auth/sessions';
+import { SIGNIN_LIMITS } from '@/lib/auth/credentials';
 import { AuthToken, User, sequelize } from '@/models';
 import { HOUR, hashToken, newLinkToken } from './tokens';
 import { ACCOUNT_LIMITS, addressKey, limitOrThrow } from './limits';
@@ -21,8 +22,8 @@ export const RESET_TTL_MS = HOUR;
  * and the audit entry happen after the answer.
  */
 export async function requestPasswordReset(email: string, request?: Request): Promise<void> {
-  limitOrThrow(`mail:address:${addressKey(request)}`, ACCOUNT_LIMITS.mailPerAddress, 'mail requests');
-  if (!takeToken(`mail:recipient:${email}`, ACCOUNT_LIMITS.mailPerRecipient).ok) return;
+  await limitOrThrow(`mail:address:${addressKey(request)}`, ACCOUNT_LIMITS.mailPerAddress, 'mail requests');
+  if (!(await consumeLimit(`mail:recipient:${email}`, ACCOUNT_LIMITS.mailPerRecipient)).ok) return;
   const user = await User.findOne({ where: { email } });
   const link = newLinkToken();
   afterResponse('password reset mail', async () => {
@@ -54,7 +55,7 @@ export async function resetPassword(token: string, password: string, request?: R
     await endSessions([user.id], transaction);
   });
   // A successful reset lifts the failed sign-in lock on the account.
-  resetLimit(`signin:account:${user.email}`);
+  await resetLimit(`signin:account:${user.email}`, SIGNIN_LIMITS.perAccount);
   await recordAudit({ action: 'account.password_reset', actor: { id: user.id, email: user.email }, targetType: 'user', targetId: user.id, request });
   return { email: user.email };
 }

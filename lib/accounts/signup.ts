@@ -5,7 +5,7 @@ import { AppError } from '@/lib/errors';
 import { recordAudit } from '@/lib/audit';
 import { enqueueMail } from '@/lib/mail';
 import { appLink, signUpAttemptMail, verificationMail } from '@/lib/mail/templates';
-import { takeToken } from '@/lib/rate-limit';
+import { consumeLimit } from '@/lib/rate-limit';
 import { DEFAULT_PLAN } from '@/lib/plans';
 import { AuthToken, Membership, Subscription, User, Workspace, sequelize } from '@/models';
 import type { SignUpInput } from './schemas';
@@ -45,7 +45,7 @@ export const SIGN_UP_ANSWER = { message: 'Check your inbox: we sent a mail to th
  * Refuses weak passwords (422 on `password`) before looking at the address.
  */
 export async function signUp(input: SignUpInput, request?: Request): Promise<void> {
-  limitOrThrow(`signup:address:${addressKey(request)}`, ACCOUNT_LIMITS.signUpPerAddress, 'sign-ups');
+  await limitOrThrow(`signup:address:${addressKey(request)}`, ACCOUNT_LIMITS.signUpPerAddress, 'sign-ups');
   assertStrongPassword(input.password, { email: input.email, name: input.name });
   const passwordHash = await bcrypt.hash(input.password, BCRYPT_ROUNDS);
   const existing = await User.findOne({ where: { email: input.email } });
@@ -71,7 +71,7 @@ export async function signUp(input: SignUpInput, request?: Request): Promise<voi
 /** The address has an account: mail its holder (a few times per window at most), never the visitor. */
 async function tellHolderOfSignUpAttempt(holder: User, request?: Request): Promise<void> {
   await recordAudit({ action: 'account.signup_address_taken', targetType: 'user', targetId: holder.id, request });
-  if (!takeToken(`mail:recipient:${holder.email}`, ACCOUNT_LIMITS.mailPerRecipient).ok) return;
+  if (!(await consumeLimit(`mail:recipient:${holder.email}`, ACCOUNT_LIMITS.mailPerRecipient)).ok) return;
   afterResponse('sign-up attempt mail', async () => {
     await enqueueMail(signUpAttemptMail(holder, { signIn: appLink('/signin', { email: holder.email }), reset: appLink('/forgot-password') }));
   });
@@ -88,8 +88,8 @@ export async function sendVerification(user: User, plan?: string): Promise<void>
 
 /** Resend, answering the same whether or not the address has an unverified account. */
 export async function resendVerification(email: string, request?: Request): Promise<void> {
-  limitOrThrow(`mail:address:${addressKey(request)}`, ACCOUNT_LIMITS.mailPerAddress, 'mail requests');
-  if (!takeToken(`mail:recipient:${email}`, ACCOUNT_LIMITS.mailPerRecipient).ok) return;
+  await limitOrThrow(`mail:address:${addressKey(request)}`, ACCOUNT_LIMITS.mailPerAddress, 'mail requests');
+  if (!(await consumeLimit(`mail:recipient:${email}`, ACCOUNT_LIMITS.mailPerRecipient)).ok) return;
   const user = await User.findOne({ where: { email } });
   if (!user || user.emailVerifiedAt) return;
   await sendVerification(user);

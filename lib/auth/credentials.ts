@@ -1,12 +1,12 @@
 import bcrypt from 'bcryptjs';
 import { recordAudit, clientAddress } from '@/lib/audit';
-import { peekToken, resetLimit, takeToken } from '@/lib/rate-limit';
+import { consumeLimit, peekLimit, resetLimit } from '@/lib/rate-limit';
 import { signInSchema } from '@/lib/accounts/schemas';
 import { User } from '@/models';
 
 /**
  * The credentials check behind next-auth's sign-in. Failed attempts are limited per
- * account and per client address (token buckets in lib/rate-limit); each failure is
+ * account and per client address (lib/rate-limit); each failure is
  * audited as `auth.signin_failed`. Errors thrown here reach the sign-in form as
  * next-auth's `error` string: 'unverified' or 'rate_limited'.
  */
@@ -38,7 +38,8 @@ export async function authorizeCredentials(raw: unknown, headers?: HeaderBag): P
   const accountKey = `signin:account:${email}`;
   const addressKey = `signin:address:${address}`;
 
-  if (!peekToken(accountKey, SIGNIN_LIMITS.perAccount).ok || !peekToken(addressKey, SIGNIN_LIMITS.perAddress).ok) {
+  const [byAccount, byAddress] = await Promise.all([peekLimit(accountKey, SIGNIN_LIMITS.perAccount), peekLimit(addressKey, SIGNIN_LIMITS.perAddress)]);
+  if (!byAccount.ok || !byAddress.ok) {
     await recordAudit({ action: 'auth.signin_failed', actor: null, targetType: 'user', targetId: email, detail: { email, reason: 'rate_limited' }, request });
     throw new Error(SIGNIN_ERRORS.rateLimited);
   }
@@ -46,13 +47,12 @@ export async function authorizeCredentials(raw: unknown, headers?: HeaderBag): P
   const user = await User.findOne({ where: { email } });
   const ok = await bcrypt.compare(password, user?.passwordHash || DUMMY_HASH);
   if (!user || !ok) {
-    takeToken(accountKey, SIGNIN_LIMITS.perAccount);
-    takeToken(addressKey, SIGNIN_LIMITS.perAddress);
+    await Promise.all([consumeLimit(accountKey, SIGNIN_LIMITS.perAccount), consumeLimit(addressKey, SIGNIN_LIMITS.perAddress)]);
     await recordAudit({ action: 'auth.signin_failed', actor: user ? { id: user.id, email: user.email } : null, targetType: 'user', targetId: user?.id ?? email, detail: { email, reason: user ? 'wrong_password' : 'unknown_account' }, request });
     return null;
   }
   if (!user.emailVerifiedAt) throw new Error(SIGNIN_ERRORS.unverified);
-  resetLimit(accountKey);
+  await resetLimit(accountKey, SIGNIN_LIMITS.perAccount);
   await recordAudit({ action: 'auth.signin', actor: { id: user.id, email: user.email }, targetType: 'user', targetId: user.id, request });
   // The generation goes into the new session's JWT (lib/auth/sessions.ts).
   return { id: String(user.id), email: user.email, name: user.name, sessionGeneration: user.sessionGeneration };

@@ -2,7 +2,7 @@ import { z } from 'zod';
 import { storedText } from '@/lib/http/text';
 import { clientAddress } from '@/lib/audit';
 import { AppError } from '@/lib/errors';
-import { takeToken } from '@/lib/rate-limit';
+import { consumeLimit } from '@/lib/rate-limit';
 import { reportLimit } from '@/lib/scoring/limits';
 import { AbuseReport, Embed } from '@/models';
 import { normalizeOrigin } from './origins';
@@ -37,7 +37,7 @@ export async function requireReportableEmbed(token: string): Promise<Embed> {
 
 export async function submitReport(embed: Embed, input: ReportInput, request: Request): Promise<AbuseReport> {
   const address = clientAddress(request);
-  const take = takeToken(`report:addr:${address ?? 'unknown'}`, reportLimit());
+  const take = await consumeLimit(`report:addr:${address ?? 'unknown'}`, reportLimit());
   if (!take.ok) {
     throw new AppError('rate_limited', `You have sent several reports just now; try again in ${Math.ceil(take.retryAfterSeconds / 60)} min.`, { headers: { 'Retry-After': String(take.retryAfterSeconds) } });
   }

@@ -1,8 +1,8 @@
 import type { LimitOptions } from '@/lib/rate-limit';
 
 /**
- * Settings of the public calculator routes, from the environment: rate limits for
- * lib/rate-limit's buckets, how long embed and allowance lookups are remembered, and a
+ * Settings of the public calculator routes, from the environment: rate limits (fixed
+ * windows of lib/rate-limit), how long embed and allowance lookups are remembered, and a
  * factor on the plans' calculator burst limits (the limits themselves are in lib/plans).
  * Read at most once a second (reading process.env on every answer shows up in
  * profiles of the scoring route); `rereadScoringSettings` (and clearScoringCaches)
@@ -22,20 +22,17 @@ export interface ScoringSettings {
   allowanceCacheMs: number;
   /** Factor on every plan's calculator burst limits (lib/plans); 1 in production, raised by load benchmarks. */
   burstScale: number;
-  /** REDIS_URL is set: the scoring limits are counted in Redis across instances (lib/rate-limit). */
-  sharedLimits: boolean;
 }
 
 function readSettings(): ScoringSettings {
   return {
-    // A person trying values: a burst of 30, then one answer a second.
+    // A person trying values: 30 answers in any 30 seconds.
     perAddress: { limit: envNumber('PARTWISE_SCORE_ADDRESS_BURST', 30), windowMs: envNumber('PARTWISE_SCORE_ADDRESS_WINDOW_MS', 30_000) },
-    // One calculator across all its visitors: a burst of 600, then 100 a second.
+    // One calculator across all its visitors: 600 answers in any 6 seconds.
     perToken: { limit: envNumber('PARTWISE_SCORE_TOKEN_BURST', 600), windowMs: envNumber('PARTWISE_SCORE_TOKEN_WINDOW_MS', 6_000) },
     embedCacheMs: envNumber('PARTWISE_EMBED_CACHE_MS', 2000, true),
     allowanceCacheMs: envNumber('PARTWISE_ALLOWANCE_CACHE_MS', 2000, true),
     burstScale: envNumber('PARTWISE_SCORE_BURST_SCALE', 1),
-    sharedLimits: Boolean((process.env.REDIS_URL ?? '').trim()),
   };
 }
 
@@ -51,7 +48,7 @@ export function rereadScoringSettings(): void {
   snapshot = null;
 }
 
-/** Abuse reports: five from one address, then one every two minutes. */
+/** Abuse reports: five from one address in ten minutes. */
 export function reportLimit(): LimitOptions {
   return { limit: envNumber('PARTWISE_REPORT_BURST', 5), windowMs: envNumber('PARTWISE_REPORT_WINDOW_MS', 10 * 60_000) };
 }

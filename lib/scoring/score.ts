@@ -5,7 +5,7 @@ import { callerOrigin } from '@/lib/embeds/origins';
 import { AppError } from '@/lib/errors';
 import { readJson, type BodySource } from '@/lib/http/handler';
 import { calculatorBurstLimits, type BurstLimit, type PlanId } from '@/lib/plans';
-import { giveBackShared, limitClock, takeSharedToken, takeSharedTokens, takeToken, takeTokens, type LimitOptions } from '@/lib/rate-limit';
+import { consumeLimit, consumeLimits, refundLimits, type KeyedLimit } from '@/lib/rate-limit';
 import { recordAnswer } from '@/lib/usage';
 import { recordInsight } from '@/lib/insight/counters';
 import { noteBurst, notePaused } from './alerts';
@@ -127,7 +127,7 @@ interface BurstBuckets {
   plan: PlanId;
   scale: number;
   limits: BurstLimit[];
-  buckets: { key: string; opts: LimitOptions }[];
+  buckets: KeyedLimit[];
 }
 
 // Per calculator, so the hot path builds no keys or options per answer.
@@ -147,11 +147,8 @@ function burstBuckets(embedId: number, plan: PlanId, scale: number): BurstBucket
 export async function scoreForToken(token: string, call: ScoreCall): Promise<{ answer: ScoreAnswer; embed: ServedEmbed }> {
   const rules = scoringSettings();
   const address = call.address ?? 'unknown';
-  // REDIS_URL: the limits are counted in Redis across every instance (awaited, all before
-  // the synchronous block below); without it, this process's synchronous buckets.
-  const shared = rules.sharedLimits;
-  const addressKey = `score:addr:${address}`;
-  const byAddress = shared ? await takeSharedToken(addressKey, rules.perAddress) : takeToken(addressKey, rules.perAddress);
+  // Counted by lib/rate-limit: in Redis across every instance with REDIS_URL, else in this process.
+  const byAddress = await consumeLimit(`score:addr:${address}`, rules.perAddress);
   if (!byAddress.ok) throw limited(byAddress.retryAfterSeconds, 'from your network');
 
   const embed = await loadServedEmbed(token);
@@ -159,40 +156,26 @@ export async function scoreForToken(token: string, call: ScoreCall): Promise<{ a
   if (!isServing(embed)) throw new AppError('gone', 'This calculator is not available.');
   checkCaller(call, embed);
 
-  const tokenKey = `score:token:${embed.id}`;
-  const byToken = shared ? await takeSharedToken(tokenKey, rules.perToken) : takeToken(tokenKey, rules.perToken);
+  const byToken = await consumeLimit(`score:token:${embed.id}`, rules.perToken);
   if (!byToken.ok) throw limited(byToken.retryAfterSeconds, 'for this calculator right now');
 
   const body = await readJson(call, scoreBodySchema, { maxBytes: MAX_SCORE_BODY_BYTES });
   const version = await loadServedVersion(embed.activeVersionId!);
   const values = parseValues(version, body.values);
 
-  let ledger = readyLedger(embed.workspaceId) ?? (await settleLedger(embed.workspaceId));
-  // Shared burst windows are counted in Redis, an await: taken here, before the
-  // synchronous block, and given back when that block refuses the answer.
-  let sharedBurst: BurstBuckets | null = null;
-  if (shared) {
-    sharedBurst = await takeSharedBurst(embed, ledger, rules.burstScale);
-    // The ledger may have been re-read while Redis answered: reserve from the current one.
-    ledger = readyLedger(embed.workspaceId) ?? (await settleLedger(embed.workspaceId));
-  }
-  // From here to recordAnswer nothing awaits: the checks, the reservation and the
+  const burst = await takeBurst(embed, readyLedger(embed.workspaceId) ?? (await settleLedger(embed.workspaceId)), rules.burstScale);
+  // The ledger may have been re-read while the limiter answered: reserve from the current one.
+  const ledger = readyLedger(embed.workspaceId) ?? (await settleLedger(embed.workspaceId));
+  // From here to recordAnswer nothing awaits: the pause check, the reservation and the
   // metering happen in one step, so concurrent answers cannot pass the line together.
+  // A refusal here gives the burst windows their point back.
   if (ledger.used >= ledger.pauseAt) {
-    if (sharedBurst) void giveBackShared(sharedBurst.buckets);
+    void refundLimits(burst.buckets);
     notePaused(ledger);
     throw paused();
   }
-  if (!sharedBurst) {
-    const burst = burstBuckets(embed.id, ledger.plan, rules.burstScale);
-    const taken = takeTokens(burst.buckets);
-    if (!taken.ok) {
-      noteBurst(embed, ledger, burst.limits[taken.blocked], limitClock());
-      throw calculatorBusy(taken.retryAfterSeconds);
-    }
-  }
   if (!reserveAnswer(ledger)) {
-    if (sharedBurst) void giveBackShared(sharedBurst.buckets);
+    void refundLimits(burst.buckets);
     throw paused();
   }
   let score: PartialRowScore;
@@ -225,16 +208,17 @@ export async function scoreForToken(token: string, call: ScoreCall): Promise<{ a
   return { answer, embed };
 }
 
-/** The calculator's burst windows counted in Redis (REDIS_URL): every window or none, else a refusal. */
-async function takeSharedBurst(embed: ServedEmbed, ledger: AnswerLedger, burstScale: number): Promise<BurstBuckets> {
+/** Count the answer in each of the calculator's burst windows (every window or none), else a refusal. */
+async function takeBurst(embed: ServedEmbed, ledger: AnswerLedger, burstScale: number): Promise<BurstBuckets> {
+  // Already paused: refuse without spending the windows.
   if (ledger.used >= ledger.pauseAt) {
     notePaused(ledger);
     throw paused();
   }
   const burst = burstBuckets(embed.id, ledger.plan, burstScale);
-  const taken = await takeSharedTokens(burst.buckets);
+  const taken = await consumeLimits(burst.buckets);
   if (!taken.ok) {
-    noteBurst(embed, ledger, burst.limits[taken.blocked], limitClock());
+    noteBurst(embed, ledger, burst.limits[taken.blocked], Date.now());
     throw calculatorBusy(taken.retryAfterSeconds);
   }
   return burst;

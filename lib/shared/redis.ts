@@ -2,7 +2,7 @@ import Redis from 'ioredis';
 
 /**
  * The optional Redis of a deployment with more than one app instance (REDIS_URL, e.g.
- * redis://host:6379/0): shared rate-limit buckets (lib/rate-limit) and the invalidation
+ * redis://host:6379/0): shared rate-limit counts (lib/rate-limit) and the invalidation
  * channel (lib/shared/broadcast). Unset: every process keeps its own, as on one machine.
  *
  * One command connection per process (kept on globalThis, so the app server and Next's

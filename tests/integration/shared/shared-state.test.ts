@@ -1,7 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import Redis from 'ioredis';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
-import { resetSharedLimiters, sharedLimits, takeSharedToken, takeSharedTokens } from '@/lib/rate-limit';
+import { consumeLimit, consumeLimits, rateLimitTesting, sharedLimits } from '@/lib/rate-limit';
 import { closeRedis, connectRedis } from '@/lib/shared/redis';
 import { announce, broadcastState, onInvalidation, PG_CHANNEL, REDIS_CHANNEL, startBroadcast, stopBroadcast, type Invalidation } from '@/lib/shared/broadcast';
 import { getSequelize } from '@/models/db';
@@ -23,12 +23,12 @@ const waitFor = async (what: () => boolean) => {
 describe('rate limits through Redis (REDIS_URL)', () => {
   beforeAll(async () => {
     process.env.REDIS_URL = testRedisUrl();
-    resetSharedLimiters();
+    rateLimitTesting.clear();
     expect(await connectRedis()).toBe(true);
   });
   afterAll(async () => {
     delete process.env.REDIS_URL;
-    resetSharedLimiters();
+    rateLimitTesting.clear();
     await closeRedis();
   });
 
@@ -36,8 +36,8 @@ describe('rate limits through Redis (REDIS_URL)', () => {
     expect(sharedLimits()).toBe(true);
     const key = `t:${randomUUID()}`;
     const opts = { limit: 3, windowMs: 60_000 };
-    expect((await Promise.all([1, 2, 3].map(() => takeSharedToken(key, opts)))).map((r) => r.ok)).toEqual([true, true, true]);
-    const refused = await takeSharedToken(key, opts);
+    expect((await Promise.all([1, 2, 3].map(() => consumeLimit(key, opts)))).map((r) => r.ok)).toEqual([true, true, true]);
+    const refused = await consumeLimit(key, opts);
     expect(refused.ok).toBe(false);
     expect(refused.retryAfterSeconds).toBeGreaterThan(0);
     expect(refused.retryAfterSeconds).toBeLessThanOrEqual(60);
@@ -54,8 +54,8 @@ describe('rate limits through Redis (REDIS_URL)', () => {
     const id = randomUUID();
     const minute = { key: `m:${id}`, opts: { limit: 3, windowMs: 60_000 } };
     const hour = { key: `h:${id}`, opts: { limit: 5, windowMs: 3_600_000 } };
-    for (let i = 0; i < 3; i++) expect((await takeSharedTokens([minute, hour])).ok).toBe(true);
-    const refused = await takeSharedTokens([minute, hour]);
+    for (let i = 0; i < 3; i++) expect((await consumeLimits([minute, hour])).ok).toBe(true);
+    const refused = await consumeLimits([minute, hour]);
     expect(refused).toMatchObject({ ok: false, blocked: 0 });
     // The hour window got its point back: 3 of 5 used, not 4.
     const other = new Redis(testRedisUrl());
