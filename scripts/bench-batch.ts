@@ -1,11 +1,6 @@
-import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import { randomBytes } from 'node:crypto';
-import type { ChildProcess } from 'node:child_process';
-import { buildIsStale } from './lib/build-state';
-import { spawnAppServer } from './lib/app-process';
-import { run, waitForHttp } from './lib/run';
+import { BENCH_FEATURES, benchAppEnv, ensureBuilt, freshDir, publishBenchCalculator, startBenchServer, stopGroup } from './lib/bench-server';
 import { arg } from './lib/args';
 
 /**
@@ -28,48 +23,7 @@ const PORT = Number(arg('port', '3291'));
 const DIST = process.env.NEXT_DIST_DIR || '.next-bench';
 const DIR = path.resolve('.tmp/bench-batch');
 const APP = `http://127.0.0.1:${PORT}`;
-const FEATURES = ['avg_speed_kmh', 'weekly_distance_km', 'climb_per_ride_m'];
-
-interface Prepared {
-  embedId: number;
-  secret: string;
-  model: Record<string, unknown>;
-}
-
-async function prepareDatabase(env: NodeJS.ProcessEnv): Promise<Prepared> {
-  await run('npx', ['tsx', 'scripts/migrate.ts', 'up'], { env, stdio: ['ignore', 'ignore', 'inherit'] });
-  Object.assign(process.env, env);
-  const m = await import('@/models');
-  const { buildModel, parseNumericTable, selectMixture, toModelJson } = await import('@/lib/mixture');
-  const { demoRidesCsv } = await import('@/lib/demo/cycling');
-  const { publishNew } = await import('@/lib/embeds/service');
-  const { createApiKey } = await import('@/lib/auth/api-keys');
-  const owner = await m.User.create({ email: 'bench@partwise.test', name: 'Bench', passwordHash: 'x', emailVerifiedAt: new Date() });
-  const workspace = await m.Workspace.create({ name: 'Bench', slug: 'bench' });
-  await m.Membership.create({ userId: owner.id, workspaceId: workspace.id, role: 'owner' });
-  await m.Subscription.create({ workspaceId: workspace.id, plan: 'lab', status: 'active' });
-  const table = parseNumericTable(demoRidesCsv(5), FEATURES);
-  const selection = selectMixture(table.rows, table.n, table.d, { components: [4], covariances: ['full'], seed: 1 });
-  const engine = buildModel(table.rows, table.n, table.d, selection.best, { features: FEATURES.map((name) => ({ name })) });
-  const modelJson = JSON.parse(toModelJson(engine));
-  const model = await m.MixtureModel.create({
-    workspaceId: workspace.id,
-    createdById: owner.id,
-    name: 'Ride groups',
-    model: modelJson,
-    clusters: ['Easy social', 'Steady club', 'Hill lovers', 'Fast group'].map((label, i) => ({ label, description: `Group ${i + 1} of the club.`, color: ['#3a8a74', '#e0a526', '#b8432f', '#4a5366'][i] })),
-    fields: [
-      { feature: 'avg_speed_kmh', label: 'Average speed', unit: 'km/h', min: 10, max: 45, help: '' },
-      { feature: 'weekly_distance_km', label: 'Weekly distance', unit: 'km', min: 0, max: 500, help: '' },
-      { feature: 'climb_per_ride_m', label: 'Climbing per ride', unit: 'm', min: 0, max: 3000, help: '' },
-    ],
-    caution: 'Benchmark calculator.',
-  });
-  const { embed } = await publishNew({ user: owner, workspace }, { mixtureModelId: model.id, title: 'Batch bench' });
-  const { secret } = await createApiKey({ user: owner, isStaff: false, workspace, role: 'owner' }, { name: 'Bench', scopes: ['score'] });
-  await m.sequelize.close();
-  return { embedId: embed.id, secret, model: modelJson };
-}
+const FEATURES = BENCH_FEATURES;
 
 /** Rows spread over the calculator's ranges, one decimal like a spreadsheet export (seeded). */
 function benchRows(n: number): Float64Array {
@@ -100,23 +54,10 @@ async function timeIt(fn: () => unknown | Promise<unknown>, runs = RUNS): Promis
 }
 
 async function main() {
-  const env: NodeJS.ProcessEnv = { ...process.env, NEXT_DIST_DIR: DIST, NEXT_TELEMETRY_DISABLED: '1' };
-  if (buildIsStale()) {
-    console.log(`[bench] building into ${DIST}…`);
-    await run('npm', ['run', 'build'], { env });
-  }
-  fs.rmSync(DIR, { recursive: true, force: true });
-  fs.mkdirSync(DIR, { recursive: true });
-  const appEnv: NodeJS.ProcessEnv = {
-    ...env,
-    NODE_ENV: 'production',
-    DATABASE_URL: path.join(DIR, 'bench.sqlite'),
-    PARTWISE_DATA_DIR: DIR,
-    NEXTAUTH_URL: APP,
-    NEXTAUTH_SECRET: randomBytes(32).toString('base64url'),
-    PORT: String(PORT),
-  };
-  const prepared = await prepareDatabase(appEnv);
+  await ensureBuilt(DIST, 'bench');
+  freshDir(DIR);
+  const appEnv = benchAppEnv({ dist: DIST, dir: DIR, url: APP });
+  const prepared = await publishBenchCalculator(appEnv, { title: 'Batch bench', keyScopes: ['score'] });
   const { parseModelJson, scoreRows } = await import('@/lib/mixture');
   const { parseCsvText } = await import('@/lib/datasets/parse');
   const { featureMatrix } = await import('@/lib/datasets/matrix');
@@ -140,12 +81,10 @@ async function main() {
     return Papa.unparse({ fields: ['row', 'p_1', 'p_2', 'p_3', 'p_4', 'best', 'log_density', 'typicality', 'unusual'], data: out });
   });
 
-  const log = fs.openSync(path.join(DIR, 'server.log'), 'a');
-  const server: ChildProcess = spawnAppServer({ port: PORT, env: appEnv, stdio: ['ignore', log, log], detached: true });
+  const server = await startBenchServer(PORT, appEnv, DIR);
   try {
-    await waitForHttp(`${APP}/api/health`, 90_000, server);
     const url = `${APP}/api/v1/calculators/${prepared.embedId}/scores`;
-    const auth = { authorization: `Bearer ${prepared.secret}` };
+    const auth = { authorization: `Bearer ${prepared.apiKey}` };
     let firstByte: number[] = [];
     const post = async (body: string, contentType: string, accept: string) => {
       const t = performance.now();
@@ -185,11 +124,7 @@ async function main() {
     console.log(`route (JSON) / engine as the CLI does it: ${(rate(routeJson) / rate(pipeline)).toFixed(2)}×`);
     console.log(`route (CSV) / engine's scoreRows alone:  ${(rate(routeCsv) / rate(kernel)).toFixed(2)}×   (the route reads and writes ${((csv.length + csvBytes) / 1e6).toFixed(1)} MB of text the kernel never sees)`);
   } finally {
-    if (server.pid) {
-      try {
-        process.kill(-server.pid, 'SIGTERM');
-      } catch {}
-    }
+    stopGroup(server);
   }
 }
 

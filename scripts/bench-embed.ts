@@ -1,13 +1,8 @@
-import fs from 'node:fs';
 import http from 'node:http';
 import path from 'node:path';
 import zlib from 'node:zlib';
-import { randomBytes } from 'node:crypto';
-import type { ChildProcess } from 'node:child_process';
 import autocannon from 'autocannon';
-import { buildIsStale } from './lib/build-state';
-import { spawnAppServer } from './lib/app-process';
-import { run, waitForHttp } from './lib/run';
+import { BENCH_VALUES, benchAppEnv, ensureBuilt, freshDir, publishBenchCalculator, startBenchServer, stopGroup } from './lib/bench-server';
 import { arg } from './lib/args';
 
 /**
@@ -31,40 +26,6 @@ const RUNS = Number(arg('runs', '7'));
 const DIST = process.env.NEXT_DIST_DIR || '.next-bench';
 const DIR = path.resolve('.tmp/bench-embed');
 const APP = `http://127.0.0.1:${PORT}`;
-const VALUES = { avg_speed_kmh: 24.5, weekly_distance_km: 130, climb_per_ride_m: 420 };
-
-async function prepareDatabase(env: NodeJS.ProcessEnv): Promise<string> {
-  await run('npx', ['tsx', 'scripts/migrate.ts', 'up'], { env, stdio: ['ignore', 'ignore', 'inherit'] });
-  Object.assign(process.env, env);
-  const m = await import('@/models');
-  const { buildModel, parseNumericTable, selectMixture, toModelJson } = await import('@/lib/mixture');
-  const { demoRidesCsv } = await import('@/lib/demo/cycling');
-  const { publishNew } = await import('@/lib/embeds/service');
-  const owner = await m.User.create({ email: 'bench@partwise.test', name: 'Bench', passwordHash: 'x', emailVerifiedAt: new Date() });
-  const workspace = await m.Workspace.create({ name: 'Bench', slug: 'bench' });
-  await m.Membership.create({ userId: owner.id, workspaceId: workspace.id, role: 'owner' });
-  await m.Subscription.create({ workspaceId: workspace.id, plan: 'lab', status: 'active' });
-  const features = Object.keys(VALUES);
-  const table = parseNumericTable(demoRidesCsv(5), features);
-  const selection = selectMixture(table.rows, table.n, table.d, { components: [4], covariances: ['full'], seed: 1 });
-  const engine = buildModel(table.rows, table.n, table.d, selection.best, { features: features.map((name) => ({ name })) });
-  const model = await m.MixtureModel.create({
-    workspaceId: workspace.id,
-    createdById: owner.id,
-    name: 'Ride groups',
-    model: JSON.parse(toModelJson(engine)),
-    clusters: ['Easy social', 'Steady club', 'Hill lovers', 'Fast group'].map((label, i) => ({ label, description: `Group ${i + 1} of the club.`, color: ['#3a8a74', '#e0a526', '#b8432f', '#4a5366'][i] })),
-    fields: [
-      { feature: 'avg_speed_kmh', label: 'Average speed', unit: 'km/h', min: 10, max: 45, help: '' },
-      { feature: 'weekly_distance_km', label: 'Weekly distance', unit: 'km', min: 0, max: 500, help: '' },
-      { feature: 'climb_per_ride_m', label: 'Climbing per ride', unit: 'm', min: 0, max: 3000, help: '' },
-    ],
-    caution: 'Benchmark calculator.',
-  });
-  const { embed } = await publishNew({ user: owner, workspace }, { mixtureModelId: model.id, title: 'Which ride group suits you?' });
-  await m.sequelize.close();
-  return embed.token;
-}
 
 async function measurePage(token: string) {
   const { launchBrowser } = await import('../tests/helpers/browser');
@@ -90,9 +51,9 @@ async function measurePage(token: string) {
           const b = await body;
           if (b) firstLoad.push({ url, raw: b.length, gzip: gz(b) });
         }
-        await page.getByLabel('Average speed (km/h)').fill(String(VALUES.avg_speed_kmh));
-        await page.getByLabel('Weekly distance (km)').fill(String(VALUES.weekly_distance_km));
-        await page.getByLabel('Climbing per ride (m)').fill(String(VALUES.climb_per_ride_m));
+        await page.getByLabel('Average speed (km/h)').fill(String(BENCH_VALUES.avg_speed_kmh));
+        await page.getByLabel('Weekly distance (km)').fill(String(BENCH_VALUES.weekly_distance_km));
+        await page.getByLabel('Climbing per ride (m)').fill(String(BENCH_VALUES.climb_per_ride_m));
         await page.getByRole('button', { name: 'Show my groups' }).click();
         await page.waitForSelector('[data-chart-ready="true"] svg', { timeout: 20_000 });
         for (const [url, body] of scripts) {
@@ -151,39 +112,19 @@ function bareServer(answer: string): Promise<http.Server> {
 const kb = (n: number) => `${(n / 1024).toFixed(1)} kB`;
 
 async function main() {
-  const env: NodeJS.ProcessEnv = { ...process.env, NEXT_DIST_DIR: DIST, NEXT_TELEMETRY_DISABLED: '1' };
-  if (buildIsStale()) {
-    console.log(`[bench] building into ${DIST}…`);
-    await run('npm', ['run', 'build'], { env });
-  }
-  fs.rmSync(DIR, { recursive: true, force: true });
-  fs.mkdirSync(DIR, { recursive: true });
-  const appEnv: NodeJS.ProcessEnv = {
-    ...env,
-    NODE_ENV: 'production',
-    DATABASE_URL: path.join(DIR, 'bench.sqlite'),
-    PARTWISE_DATA_DIR: DIR,
-    NEXTAUTH_URL: APP,
-    NEXTAUTH_SECRET: randomBytes(32).toString('base64url'),
-    // One loopback client stands for many visitors: lift the per-address and per-token limits.
-    PARTWISE_SCORE_ADDRESS_BURST: '1000000000',
-    PARTWISE_SCORE_TOKEN_BURST: '1000000000',
-    // and the plan's per-calculator burst limits (fair use), which would otherwise answer most requests with 429.
-    PARTWISE_SCORE_BURST_SCALE: '1000000',
-    PORT: String(PORT),
-  };
-  const token = await prepareDatabase(appEnv);
-  const log = fs.openSync(path.join(DIR, 'server.log'), 'a');
-  const server: ChildProcess = spawnAppServer({ port: PORT, env: appEnv, stdio: ['ignore', log, log], detached: true });
+  await ensureBuilt(DIST, 'bench');
+  freshDir(DIR);
+  const appEnv = benchAppEnv({ dist: DIST, dir: DIR, url: APP });
+  const { token } = await publishBenchCalculator(appEnv, { title: 'Which ride group suits you?' });
+  const server = await startBenchServer(PORT, appEnv, DIR);
   let bare: http.Server | undefined;
   try {
-    await waitForHttp(`${APP}/api/health`, 90_000, server);
     // Warm the page and the route (first compile of each, version cache).
     await fetch(`${APP}/embed/${token}`).then((r) => r.text());
 
     const page = await measurePage(token);
     const scoreUrl = `${APP}/api/score/${token}`;
-    const body = JSON.stringify({ values: VALUES });
+    const body = JSON.stringify({ values: BENCH_VALUES });
     const headers = { 'content-type': 'application/json' };
     const sample = await fetch(scoreUrl, { method: 'POST', headers, body });
     if (sample.status !== 200) throw new Error(`scoring answered ${sample.status}: ${await sample.text()}`);
@@ -213,11 +154,7 @@ async function main() {
     console.log(`ratio (route / bare): ${(route.rps / baseline.rps).toFixed(2)}× (target ≥ 0.5×, p99 < 20 ms, 0 errors)`);
   } finally {
     bare?.close();
-    if (server.pid) {
-      try {
-        process.kill(-server.pid, 'SIGTERM');
-      } catch {}
-    }
+    stopGroup(server);
   }
 }
 
