@@ -23,7 +23,7 @@ import { arg } from './lib/args';
  * Redis (the test stack's Debian binaries), the demo seeded on them, then scoring
  * throughput of one app instance against two behind a small round-robin proxy
  * (node:http, keep-alive), and fits per minute through the pg-boss queue with one worker
- * process, then two. The machine's core count is printed beside the figures: on a small
+ * process, then two (`--worker-slots`, default 1: fits each worker computes at once). The machine's core count is printed beside the figures: on a small
  * machine the instances, the proxy and the load generator share the same cores.
  *
  * `all` (the default) runs both, one after the other. Builds into NEXT_DIST_DIR (default
@@ -33,7 +33,10 @@ const PART = arg('part', 'all');
 const DURATION = Number(arg('duration', PART === 'scale' ? '10' : '20'));
 const CONNECTIONS = Number(arg('connections', '32'));
 const EXACT = Number(arg('exact', '1500'));
-const FITS = Number(arg('fits', '6'));
+// At most the Lab plan's fits waiting or running at once (lib/plans FIT_QUEUE_LIMITS.lab).
+const FITS = Number(arg('fits', '10'));
+// One fit at a time per worker by default, so one worker uses one core and two use two.
+const WORKER_SLOTS = arg('worker-slots', '1');
 const PORT = Number(arg('port', process.env.PARTWISE_BENCH_PORT ?? '3275'));
 const DIST = process.env.NEXT_DIST_DIR || '.next-bench';
 const SCORE_BODY = JSON.stringify({ values: BENCH_VALUES });
@@ -160,14 +163,23 @@ function roundRobin(targets: number[]): Promise<http.Server> {
   return new Promise((resolve) => server.listen(0, '127.0.0.1', () => resolve(server)));
 }
 
+/** A fit of a few seconds, so the figure is the workers' computing more than the queue's turns. */
+const FIT_SETTINGS = (i: number) => ({ minComponents: 1, maxComponents: 6, covariances: ['full', 'diagonal', 'tied', 'spherical'], restarts: 16, seed: i + 1 });
+
 async function fitsPerMinute(app: string, seeded: SeededDemo, workers: number, env: NodeJS.ProcessEnv, dir: string): Promise<number> {
   const procs: ChildProcess[] = [];
-  const log = fs.openSync(path.join(dir, `workers-${workers}.log`), 'a');
-  for (let i = 0; i < workers; i++) procs.push(spawn(process.execPath, ['--import', 'tsx', 'scripts/worker.ts'], { env, stdio: ['ignore', log, log], detached: true }));
+  const log = fs.openSync(path.join(dir, `workers-${workers}.log`), 'w');
+  for (let i = 0; i < workers; i++) procs.push(spawn(process.execPath, ['--import', 'tsx', 'scripts/worker.ts'], { env: { ...env, PARTWISE_FIT_SLOTS: WORKER_SLOTS }, stdio: ['ignore', log, log], detached: true }));
   try {
+    // Timed from when every worker is taking jobs, so their start-up is not counted.
+    const logFile = path.join(dir, `workers-${workers}.log`);
+    for (let waited = 0; (fs.readFileSync(logFile, 'utf8').match(/taking fits from pg-boss/g) ?? []).length < workers; waited += 100) {
+      if (waited > 60_000) throw new Error(`the workers did not start within a minute (see ${logFile})`);
+      await new Promise((r) => setTimeout(r, 100));
+    }
     const started = performance.now();
     const ids: number[] = [];
-    for (let i = 0; i < FITS; i++) ids.push(await startFit(app, seeded, { minComponents: 1, maxComponents: 4, covariances: ['full', 'diagonal'], restarts: 2, seed: i + 1 }));
+    for (let i = 0; i < FITS; i++) ids.push(await startFit(app, seeded, FIT_SETTINGS(i)));
     for (;;) {
       const states = await Promise.all(ids.map(async (id) => (await (await fetch(`${app}/api/fits/${id}`, { headers: { cookie: seeded.cookie } })).json()).fit.status as string));
       if (states.every((s) => s === 'succeeded' || s === 'failed' || s === 'cancelled')) {
@@ -187,6 +199,7 @@ async function fitsPerMinute(app: string, seeded: SeededDemo, workers: number, e
 async function scale(): Promise<void> {
   const dir = freshDir(path.resolve('.tmp/bench-load-scale'));
   const [portA, portB] = [PORT + 10, PORT + 11];
+  if (!(FITS >= 1 && FITS <= 10)) throw new Error('--fits is 1 to 10 (the Lab plan has at most 10 fits waiting or running)');
   let postgres: RunningPostgres | undefined;
   let redis: RunningRedis | undefined;
   const servers: ChildProcess[] = [];
@@ -210,7 +223,7 @@ async function scale(): Promise<void> {
     console.log(`\n[bench:load] PostgreSQL + Redis: scoring with ${CONNECTIONS} connections, ${DURATION} s each; ${os.availableParallelism()} cores on this machine`);
     const one = await scoring(`http://127.0.0.1:${portA}${route}`);
     const two = await scoring(`http://127.0.0.1:${proxyPort}${route}`);
-    console.log(`[bench:load] fits: ${FITS} fits of the demo rides (1–4 components × full, diagonal; 2 restarts) through pg-boss`);
+    console.log(`[bench:load] fits: ${FITS} fits of the demo rides (1–6 components × 4 covariance types, 16 restarts) through pg-boss, ${WORKER_SLOTS} fit slot(s) per worker`);
     const app = `http://127.0.0.1:${portA}`;
     const oneWorker = await fitsPerMinute(app, seeded, 1, env, dir);
     const twoWorkers = await fitsPerMinute(app, seeded, 2, env, dir);
@@ -219,7 +232,7 @@ async function scale(): Promise<void> {
     line('scoring, one instance', one);
     line('scoring, two instances + proxy', two);
     console.log(`ratio two / one: ${(two.requests.average / one.requests.average).toFixed(2)}×`);
-    console.log(`fits per minute, one worker:  ${oneWorker.toFixed(1)}`);
+    console.log(`fits per minute, one worker:  ${oneWorker.toFixed(1)}   (${WORKER_SLOTS} slot(s) per worker)`);
     console.log(`fits per minute, two workers: ${twoWorkers.toFixed(1)}   (${(twoWorkers / oneWorker).toFixed(2)}×)`);
   } finally {
     proxy?.close();

@@ -164,7 +164,8 @@ export async function startFitWorker(opts: FitWorkerOptions = {}): Promise<FitWo
       } catch (e) {
         console.error('[partwise worker] queue error:', (e as Error).message);
       }
-      if (!busy) await sleep(pollMs);
+      // Every slot taken: look again as soon as one frees (not a whole poll later); queue empty: poll.
+      if (!busy) await (running.size >= slots ? Promise.race([sleep(pollMs), ...[...running.values()].map((r) => r.done)]) : sleep(pollMs));
     }
   })();
 
