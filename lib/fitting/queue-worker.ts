@@ -126,6 +126,15 @@ export async function startFitWorker(opts: FitWorkerOptions = {}): Promise<FitWo
   const log = opts.log ?? ((line: string) => console.log(`[partwise worker] ${line}`));
   const running = new Map<string, { job: FitJob; done: Promise<void>; handedBack: boolean }>();
   let stopping = false;
+  // The loop's wait between looks at the queue; stop() ends it at once instead of a poll later.
+  let wake = () => {};
+  const idle = (ms: number) => new Promise<void>((resolve) => {
+    const timer = setTimeout(resolve, ms);
+    wake = () => {
+      clearTimeout(timer);
+      resolve();
+    };
+  });
   drainRunner(false);
 
   const loop = (async () => {
@@ -165,7 +174,7 @@ export async function startFitWorker(opts: FitWorkerOptions = {}): Promise<FitWo
         console.error('[partwise worker] queue error:', (e as Error).message);
       }
       // Every slot taken: look again as soon as one frees (not a whole poll later); queue empty: poll.
-      if (!busy) await (running.size >= slots ? Promise.race([sleep(pollMs), ...[...running.values()].map((r) => r.done)]) : sleep(pollMs));
+      if (!busy) await (running.size >= slots ? Promise.race([idle(pollMs), ...[...running.values()].map((r) => r.done)]) : idle(pollMs));
     }
   })();
 
@@ -173,6 +182,7 @@ export async function startFitWorker(opts: FitWorkerOptions = {}): Promise<FitWo
     active: () => [...running.keys()],
     async stop(graceMs = Number(process.env.PARTWISE_WORKER_GRACE_MS ?? 30_000)) {
       stopping = true;
+      wake();
       drainRunner();
       await loop;
       const all = Promise.all([...running.values()].map((r) => r.done));

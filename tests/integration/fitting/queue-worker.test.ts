@@ -136,6 +136,16 @@ describe.skipIf(!onPg)('fits through pg-boss', () => {
     expect(await jobsOf(fit.id)).toEqual([{ name: FIT_QUEUE, state: 'completed', retry_count: 0 }]);
   });
 
+  it('takes the next job as soon as a slot frees, not a poll interval later, and stops without waiting out the poll', async () => {
+    const fits = [await start({ ...TINY, datasetId: small, seed: 1 }), await start({ ...TINY, datasetId: small, seed: 2 }), await start({ ...TINY, datasetId: small, seed: 3 })];
+    // One slot and a look at the queue every 10 minutes: only a freed slot can start fits 2 and 3 in time.
+    worker = await startFitWorker({ log: () => {}, pollMs: 600_000 });
+    for (const fit of fits) expect((await waitFor(fit.id, ended, [], 30_000)).status).toBe('succeeded');
+    const stopped = worker.stop(5_000);
+    worker = null;
+    await stopped;
+  });
+
   it('keeps the fair order across workspaces: the other workspace\'s fit starts second, not after all of the first\'s', async () => {
     const a1 = await start({ ...TINY, datasetId: small, seed: 1 });
     const a2 = await start({ ...TINY, datasetId: small, seed: 2 });
