@@ -44,8 +44,13 @@ export interface KeyedLimit {
 
 /** Are the limits counted in Redis, across every instance, in this process? */
 export function sharedLimits(): boolean {
-  return redisUrl() !== null;
+  // REDIS_URL looked up at most once a second (reading process.env per answer shows in profiles).
+  const now = Date.now();
+  if (now - storeChoice.readAt >= 1000 || now < storeChoice.readAt) storeChoice = { readAt: now, shared: redisUrl() !== null };
+  return storeChoice.shared;
 }
+
+let storeChoice = { readAt: -Infinity, shared: false };
 
 // One limiter per (store, limit, window), kept on globalThis so every bundle of the server shares them.
 const limiters = ((globalThis as Record<symbol, unknown>)[Symbol.for('partwise.limiters')] ??= new Map<string, RateLimiterAbstract>()) as Map<string, RateLimiterAbstract>;
@@ -56,14 +61,30 @@ function checkOptions(opts: LimitOptions): void {
   }
 }
 
+// The limiter of an options object, for callers that keep their options (the scoring
+// path does): a lookup per answer instead of building the limiter's name.
+const limiterOfOptions = new WeakMap<LimitOptions, { shared: boolean; limit: number; windowMs: number; generation: number; limiter: RateLimiterAbstract }>();
+// Bumped when the limiters are dropped (tests), so remembered ones are not used again.
+let generation = 0;
+
 function limiterFor(opts: LimitOptions): RateLimiterAbstract {
-  checkOptions(opts);
   const shared = sharedLimits();
-  // The options are in the prefix: a changed limit starts its own count instead of reading another's.
-  const name = `${opts.limit}:${opts.windowMs}`;
-  const id = `${shared ? 'redis' : 'memory'}:${name}`;
+  const known = limiterOfOptions.get(opts);
+  if (known && known.shared === shared && known.generation === generation && known.limit === opts.limit && known.windowMs === opts.windowMs) return known.limiter;
+  const limiter = namedLimiter(shared, opts);
+  limiterOfOptions.set(opts, { shared, limit: opts.limit, windowMs: opts.windowMs, generation, limiter });
+  return limiter;
+}
+
+const limiterId = (shared: boolean, opts: LimitOptions) => `${shared ? 'redis' : 'memory'}:${opts.limit}:${opts.windowMs}`;
+
+function namedLimiter(shared: boolean, opts: LimitOptions): RateLimiterAbstract {
+  checkOptions(opts);
+  const id = limiterId(shared, opts);
   let limiter = limiters.get(id);
   if (limiter) return limiter;
+  // The options are in the prefix: a changed limit starts its own count instead of reading another's.
+  const name = `${opts.limit}:${opts.windowMs}`;
   // Redis keeps whole seconds; the memory store would take fractions, but both count alike.
   const duration = Math.max(1, Math.ceil(opts.windowMs / 1000));
   const local = new RateLimiterMemory({ keyPrefix: `partwise:rl-local:${name}`, points: opts.limit, duration });
@@ -86,13 +107,18 @@ function fromRes(res: RateLimiterRes, ok: boolean): LimitResult {
   return { ok, remaining: Math.max(0, res.remainingPoints), retryAfterSeconds: ok ? 0 : Math.max(1, Math.ceil(res.msBeforeNext / 1000)) };
 }
 
+const granted = (res: RateLimiterRes): LimitResult => fromRes(res, true);
+function refused(refusal: unknown): LimitResult {
+  if (refusal instanceof RateLimiterRes) return fromRes(refusal, false);
+  throw refusal;
+}
+
 /** Count one request against `key`; `ok: false` when its window is already full. */
 export async function consumeLimit(key: string, opts: LimitOptions): Promise<LimitResult> {
   try {
-    return fromRes(await limiterFor(opts).consume(key, 1), true);
+    return granted(await limiterFor(opts).consume(key, 1));
   } catch (refusal) {
-    if (refusal instanceof RateLimiterRes) return fromRes(refusal, false);
-    throw refusal;
+    return refused(refusal);
   }
 }
 
@@ -108,7 +134,13 @@ export async function consumeLimit(key: string, opts: LimitOptions): Promise<Lim
 export async function consumeLimits(limits: readonly KeyedLimit[]): Promise<MultiLimitResult> {
   let remaining = Infinity;
   for (let i = 0; i < limits.length; i++) {
-    const r = await consumeLimit(limits[i].key, limits[i].opts);
+    // The store's own promise awaited here, not wrapped: this runs on every scored answer.
+    let r: LimitResult;
+    try {
+      r = granted(await limiterFor(limits[i].opts).consume(limits[i].key, 1));
+    } catch (refusal) {
+      r = refused(refusal);
+    }
     if (r.ok) {
       remaining = Math.min(remaining, r.remaining);
       continue;
@@ -144,5 +176,7 @@ export async function resetLimit(key: string, opts: LimitOptions): Promise<void>
 export const rateLimitTesting = {
   clear() {
     limiters.clear();
+    generation += 1;
+    storeChoice = { readAt: -Infinity, shared: false };
   },
 };
