@@ -44,6 +44,13 @@ async function main() {
     NEXTAUTH_SECRET: process.env.NEXTAUTH_SECRET || randomBytes(32).toString('base64url'),
     // The local mail page (/dev/mail) lists what the SMTP fake received.
     PARTWISE_DEV_MAIL: '1',
+    // Every browser journey answers the demo's free calculator from this one address. Its
+    // fair-use windows (10 answers a minute, 30 per address in 30 s) are fixed windows, so
+    // the whole suite would otherwise wait out minutes in turn: five times the burst
+    // windows and a wider address limit here. The real numbers are pinned by the
+    // integration and system tests; tests/browser/scoring-alerts.test.ts reads this scale.
+    PARTWISE_SCORE_BURST_SCALE: '5',
+    PARTWISE_SCORE_ADDRESS_BURST: '1000',
     PORT,
   };
 
