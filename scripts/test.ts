@@ -44,15 +44,16 @@ async function main() {
     NEXTAUTH_SECRET: process.env.NEXTAUTH_SECRET || randomBytes(32).toString('base64url'),
     // The local mail page (/dev/mail) lists what the SMTP fake received.
     PARTWISE_DEV_MAIL: '1',
-    // Every browser journey answers the demo's free calculator from this one address. Its
-    // fair-use windows (10 answers a minute, 30 per address in 30 s) are fixed windows, so
-    // the whole suite would otherwise wait out minutes in turn: five times the burst
-    // windows and a wider address limit here. The real numbers are pinned by the
-    // integration and system tests; tests/browser/scoring-alerts.test.ts reads this scale.
-    PARTWISE_SCORE_BURST_SCALE: '5',
-    PARTWISE_SCORE_ADDRESS_BURST: '1000',
     PORT,
   };
+
+  // For the stack's server only (the integration tests read the real limits from this
+  // process's environment): every browser journey answers the demo's free calculator from
+  // one address, and its fair-use windows (10 answers a minute, 30 per address in 30 s)
+  // are fixed windows, so the suite would otherwise wait out minutes in turn. Five times
+  // the burst windows and a wider address limit; the real numbers are pinned by the
+  // integration and system tests, and tests/browser/scoring-alerts.test.ts reads the scale.
+  const serverLimits = { PARTWISE_SCORE_BURST_SCALE: '5', PARTWISE_SCORE_ADDRESS_BURST: '1000' };
 
   await run('npx', ['tsx', 'scripts/migrate.ts', 'up'], { env, stdio: ['ignore', 'ignore', 'inherit'] });
   await run('npx', ['tsx', 'scripts/seed.ts'], { env });
@@ -78,14 +79,14 @@ async function main() {
     for (const s of services) Object.assign(env, s.env);
 
     const log = fs.openSync(path.join(STACK_DIR, 'server.log'), 'a');
-    server = spawnAppServer({ port: PORT, env, stdio: ['ignore', log, log], detached: true });
+    server = spawnAppServer({ port: PORT, env: { ...env, ...serverLimits }, stdio: ['ignore', log, log], detached: true });
     await waitForHttp(`${appUrl}/api/health`, 90_000, server);
 
     const report = path.join(STACK_DIR, 'vitest-report.json');
     exitCode = await new Promise<number>((resolve) => {
       const vitest = spawn('npx', ['--no-install', 'vitest', 'run', ...process.argv.slice(2)], {
         stdio: 'inherit',
-        env: { ...env, NODE_ENV: 'test', PARTWISE_BASE_URL: appUrl, PARTWISE_TEST_REPORT: report },
+        env: { ...env, NODE_ENV: 'test', PARTWISE_BASE_URL: appUrl, PARTWISE_TEST_REPORT: report, PARTWISE_TEST_SERVER_BURST_SCALE: serverLimits.PARTWISE_SCORE_BURST_SCALE },
       });
       vitest.on('exit', (code) => resolve(code ?? 1));
     });

@@ -30,7 +30,7 @@ afterAll(async () => {
 describe('scoring alerts in the studio', () => {
   it('a burst past the minute limit is refused, mailed once, and listed on the billing page', async () => {
     // The test stack runs the server with a factor on the burst windows (scripts/test.ts), applied as lib/scoring does.
-    const scale = Number(process.env.PARTWISE_SCORE_BURST_SCALE) > 0 ? Number(process.env.PARTWISE_SCORE_BURST_SCALE) : 1;
+    const scale = Number(process.env.PARTWISE_TEST_SERVER_BURST_SCALE) > 0 ? Number(process.env.PARTWISE_TEST_SERVER_BURST_SCALE) : 1;
     const perMinute = Math.max(1, Math.floor(CALCULATOR_BURST_LIMITS.sketch[0].answers * scale));
     const answers = await Promise.all(
       Array.from({ length: perMinute + 5 }, () => fetch(appUrl(`/api/score/${token}`), { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ values: good }) })),
