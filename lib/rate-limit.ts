@@ -42,6 +42,8 @@ export interface KeyedLimit {
   opts: LimitOptions;
 }
 
+let storeChoice = { readAt: -Infinity, shared: false };
+
 /** Are the limits counted in Redis, across every instance, in this process? */
 export function sharedLimits(): boolean {
   // REDIS_URL looked up at most once a second (reading process.env per answer shows in profiles).
@@ -49,8 +51,6 @@ export function sharedLimits(): boolean {
   if (now - storeChoice.readAt >= 1000 || now < storeChoice.readAt) storeChoice = { readAt: now, shared: redisUrl() !== null };
   return storeChoice.shared;
 }
-
-let storeChoice = { readAt: -Infinity, shared: false };
 
 // One limiter per (store, limit, window), kept on globalThis so every bundle of the server shares them.
 const limiters = ((globalThis as Record<symbol, unknown>)[Symbol.for('partwise.limiters')] ??= new Map<string, RateLimiterAbstract>()) as Map<string, RateLimiterAbstract>;
@@ -61,28 +61,12 @@ function checkOptions(opts: LimitOptions): void {
   }
 }
 
-// The limiter of an options object, for callers that keep their options (the scoring
-// path does): a lookup per answer instead of building the limiter's name.
-const limiterOfOptions = new WeakMap<LimitOptions, { shared: boolean; limit: number; windowMs: number; generation: number; limiter: RateLimiterAbstract }>();
-// Bumped when the limiters are dropped (tests), so remembered ones are not used again.
-let generation = 0;
-
 function limiterFor(opts: LimitOptions): RateLimiterAbstract {
   const shared = sharedLimits();
-  const known = limiterOfOptions.get(opts);
-  if (known && known.shared === shared && known.generation === generation && known.limit === opts.limit && known.windowMs === opts.windowMs) return known.limiter;
-  const limiter = namedLimiter(shared, opts);
-  limiterOfOptions.set(opts, { shared, limit: opts.limit, windowMs: opts.windowMs, generation, limiter });
-  return limiter;
-}
-
-const limiterId = (shared: boolean, opts: LimitOptions) => `${shared ? 'redis' : 'memory'}:${opts.limit}:${opts.windowMs}`;
-
-function namedLimiter(shared: boolean, opts: LimitOptions): RateLimiterAbstract {
-  checkOptions(opts);
-  const id = limiterId(shared, opts);
+  const id = `${shared ? 'redis' : 'memory'}:${opts.limit}:${opts.windowMs}`;
   let limiter = limiters.get(id);
   if (limiter) return limiter;
+  checkOptions(opts);
   // The options are in the prefix: a changed limit starts its own count instead of reading another's.
   const name = `${opts.limit}:${opts.windowMs}`;
   // Redis keeps whole seconds; the memory store would take fractions, but both count alike.
@@ -176,7 +160,6 @@ export async function resetLimit(key: string, opts: LimitOptions): Promise<void>
 export const rateLimitTesting = {
   clear() {
     limiters.clear();
-    generation += 1;
     storeChoice = { readAt: -Infinity, shared: false };
   },
 };
