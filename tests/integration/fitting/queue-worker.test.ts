@@ -17,19 +17,10 @@ import { FIT_DEAD_QUEUE, FIT_QUEUE, WORKER_LOST_REASON, fitBoss, fitQueueMode, q
 import { activeFitIds } from '@/lib/fitting/jobs';
 import { startFitWorker, type FitWorkerHandle } from '@/lib/fitting/queue-worker';
 import { makeRequest } from '../../helpers/auth';
-import { csvForm, studioWorld } from '../studio/helpers';
+import { csvForm, ridesCsv, RIDE_FEATURES, studioWorld } from '../studio/helpers';
 
 const onPg = process.env.PARTWISE_TEST_DIALECT === 'postgres';
-const FEATURES = ['avg_speed_kmh', 'weekly_distance_km', 'climb_per_ride_m'];
-/** Invented weekly ride logs of a cycling club, in four loose groups of riders. */
-function ridesCsv(rows: number): string {
-  const lines = [FEATURES.join(',')];
-  for (let i = 0; i < rows; i++) {
-    const g = i % 4;
-    lines.push([18 + g * 3 + Math.sin(i) * 2, 40 + g * 35 + Math.cos(i * 1.7) * 15, 150 + g * 120 + Math.sin(i * 0.37) * 80].map((v) => v.toFixed(2)).join(','));
-  }
-  return lines.join('\n') + '\n';
-}
+const FEATURES = RIDE_FEATURES;
 const TINY = { features: FEATURES, minComponents: 1, maxComponents: 2, covariances: ['diagonal'], restarts: 1, seed: 1 };
 /** Many candidates, each quick: a fit that runs for a while and pauses between candidates. */
 const LONG = { features: FEATURES, minComponents: 1, maxComponents: 8, covariances: ['full', 'diagonal', 'spherical', 'tied'], restarts: 4, seed: 3 };

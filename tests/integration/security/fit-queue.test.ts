@@ -16,18 +16,9 @@ import { computeCandidates, computeFit, type ComputeInput } from '@/lib/fitting/
 import { activeFitIds, recoverInterruptedFits } from '@/lib/fitting/jobs';
 import { componentRange } from '@/lib/fitting/params';
 import { makeRequest } from '../../helpers/auth';
-import { csvForm, studioWorld } from '../studio/helpers';
+import { csvForm, ridesCsv, RIDE_FEATURES, studioWorld } from '../studio/helpers';
 
-const FEATURES = ['avg_speed_kmh', 'weekly_distance_km', 'climb_per_ride_m'];
-/** Invented weekly ride logs of a cycling club, in four loose groups of riders. */
-function ridesCsv(rows: number): string {
-  const lines = [FEATURES.join(',')];
-  for (let i = 0; i < rows; i++) {
-    const g = i % 4;
-    lines.push([18 + g * 3 + Math.sin(i) * 2, 40 + g * 35 + Math.cos(i * 1.7) * 15, 150 + g * 120 + Math.sin(i * 0.37) * 80].map((v) => v.toFixed(2)).join(','));
-  }
-  return lines.join('\n') + '\n';
-}
+const FEATURES = RIDE_FEATURES;
 const TINY = { features: FEATURES, minComponents: 1, maxComponents: 2, covariances: ['diagonal'], restarts: 1, seed: 1 };
 
 let w: Awaited<ReturnType<typeof studioWorld>>;

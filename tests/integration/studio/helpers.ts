@@ -22,3 +22,15 @@ export function csvForm(content: string | Uint8Array, filename = 'table.csv', na
   if (name) form.set('name', name);
   return form;
 }
+
+export const RIDE_FEATURES = ['avg_speed_kmh', 'weekly_distance_km', 'climb_per_ride_m'];
+
+/** Invented weekly ride logs of a cycling club, in four loose groups of riders (deterministic). */
+export function ridesCsv(rows: number): string {
+  const lines = [RIDE_FEATURES.join(',')];
+  for (let i = 0; i < rows; i++) {
+    const g = i % 4;
+    lines.push([18 + g * 3 + Math.sin(i) * 2, 40 + g * 35 + Math.cos(i * 1.7) * 15, 150 + g * 120 + Math.sin(i * 0.37) * 80].map((v) => v.toFixed(2)).join(','));
+  }
+  return lines.join('\n') + '\n';
+}
