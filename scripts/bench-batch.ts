@@ -1,6 +1,6 @@
 import os from 'node:os';
 import path from 'node:path';
-import { BENCH_FEATURES, benchAppEnv, ensureBuilt, freshDir, publishBenchCalculator, startBenchServer, stopGroup } from './lib/bench-server';
+import { BENCH_FEATURES, benchAppEnv, ensureBuilt, freshDir, publishBenchCalculator, runBench, startBenchServer, stopGroup } from './lib/bench-server';
 import { arg } from './lib/args';
 
 /**
@@ -128,10 +128,4 @@ async function main() {
   }
 }
 
-main().then(
-  () => process.exit(0),
-  (e) => {
-    console.error('[bench] failed:', e);
-    process.exit(1);
-  },
-);
+runBench(main, 'bench');

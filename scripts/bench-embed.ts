@@ -2,7 +2,7 @@ import http from 'node:http';
 import path from 'node:path';
 import zlib from 'node:zlib';
 import autocannon from 'autocannon';
-import { BENCH_VALUES, benchAppEnv, ensureBuilt, freshDir, publishBenchCalculator, startBenchServer, stopGroup } from './lib/bench-server';
+import { BENCH_VALUES, benchAppEnv, ensureBuilt, freshDir, publishBenchCalculator, runBench, startBenchServer, stopGroup } from './lib/bench-server';
 import { arg } from './lib/args';
 
 /**
@@ -158,10 +158,4 @@ async function main() {
   }
 }
 
-main().then(
-  () => process.exit(0),
-  (e) => {
-    console.error('[bench] failed:', e);
-    process.exit(1);
-  },
-);
+runBench(main, 'bench');

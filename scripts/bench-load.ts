@@ -4,7 +4,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { spawn, type ChildProcess } from 'node:child_process';
 import autocannon from 'autocannon';
-import { BENCH_VALUES, benchAppEnv, ensureBuilt, freshDir, seedDemoOnLab, startBenchServer, stopGroup, type SeededDemo } from './lib/bench-server';
+import { BENCH_VALUES, benchAppEnv, ensureBuilt, freshDir, seedDemoOnLab, runBench, startBenchServer, stopGroup, type SeededDemo } from './lib/bench-server';
 import { startPostgres, type RunningPostgres } from './lib/ensure-postgres';
 import { startRedis, type RunningRedis } from './lib/ensure-redis';
 import { arg } from './lib/args';
@@ -266,10 +266,4 @@ async function main(): Promise<number> {
   return one || more;
 }
 
-main().then(
-  (code) => process.exit(code),
-  (e) => {
-    console.error('[bench:load] failed:', e);
-    process.exit(1);
-  },
-);
+runBench(main, 'bench:load');

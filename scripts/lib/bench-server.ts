@@ -156,3 +156,14 @@ export function stopGroup(child: ChildProcess | undefined): void {
     // already gone
   }
 }
+
+/** Run a benchmark's main and exit with its code (0 when it returns none), or 1 with the error. */
+export function runBench(main: () => Promise<number | void>, label: string): void {
+  main().then(
+    (code) => process.exit(code ?? 0),
+    (e) => {
+      console.error(`[${label}] failed:`, e);
+      process.exit(1);
+    },
+  );
+}
